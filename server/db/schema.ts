@@ -1,0 +1,14 @@
+import type {
+  AppSecretsTable, AuditLogTable, AuthTokensTable, CapturedMailTable, OrganizationsTable, OutgoingMailTable, UsersTable,
+} from './tables/foundation'
+
+/** The whole database as Kysely sees it; each feature's tables live in ./tables. */
+export interface Database {
+  organizations: OrganizationsTable
+  users: UsersTable
+  auth_tokens: AuthTokensTable
+  app_secrets: AppSecretsTable
+  outgoing_mail: OutgoingMailTable
+  captured_mail: CapturedMailTable
+  audit_log: AuditLogTable
+}

@@ -1,0 +1,75 @@
+import type { Request, Response, Router } from 'express'
+import type { z } from 'zod'
+import type { Role } from '../../shared/schemas/common'
+import { AppError, fieldsFromZod, forbidden, unauthorized } from './errors'
+import type { Actor } from './session-user'
+
+type Method = 'get' | 'post' | 'put' | 'patch' | 'delete'
+
+/** Who may call a route: 'public' (no sign-in), 'signed-in' (any role), or a list of roles. */
+export type Access = 'public' | 'signed-in' | readonly Role[]
+
+export interface RouteSpec<B extends z.ZodType | undefined, Q extends z.ZodType | undefined, P extends z.ZodType | undefined> {
+  method: Method
+  /** Express path, e.g. /api/users/:id */
+  path: string
+  summary: string
+  tag: string
+  access: Access
+  body?: B
+  query?: Q
+  params?: P
+  /** Schema of a 2xx JSON response, for the OpenAPI document. */
+  response?: z.ZodType
+  status?: number
+  /** Non-JSON body (e.g. multipart upload or a PDF download), described for OpenAPI. */
+  requestContentType?: string
+  responseContentType?: string
+}
+
+type Parsed<T> = T extends z.ZodType ? z.infer<T> : undefined
+
+export interface RouteContext<B, Q, P> {
+  req: Request
+  res: Response
+  body: B
+  query: Q
+  params: P
+  /** The signed-in caller; present whenever access is not 'public'. */
+  actor: Actor
+}
+
+/** Collects specs for the OpenAPI document while registering handlers on an Express router. */
+export class ApiRoutes {
+  readonly specs: RouteSpec<any, any, any>[] = []
+  constructor(readonly router: Router) {}
+
+  add<B extends z.ZodType | undefined = undefined, Q extends z.ZodType | undefined = undefined, P extends z.ZodType | undefined = undefined>(
+    spec: RouteSpec<B, Q, P>,
+    handler: (ctx: RouteContext<Parsed<B>, Parsed<Q>, Parsed<P>>) => Promise<unknown> | unknown,
+  ): void {
+    this.specs.push(spec)
+    this.router[spec.method](spec.path, async (req, res) => {
+      const actor = req.actor
+      if (spec.access !== 'public') {
+        if (!actor) throw unauthorized()
+        if (spec.access !== 'signed-in' && !spec.access.includes(actor.role)) throw forbidden()
+      }
+      // Parse params before the body so that a bad id answers 400 for the id, not for the body.
+      const params = spec.params ? prefixed(spec.params, req.params, 'params') : undefined
+      const query = spec.query ? prefixed(spec.query, req.query, 'query') : undefined
+      const body = spec.body ? prefixed(spec.body, req.body ?? {}, 'body') : undefined
+      const out = await handler({ req, res, body, query, params, actor: actor! } as RouteContext<Parsed<B>, Parsed<Q>, Parsed<P>>)
+      if (res.headersSent) return
+      if (out === undefined) res.status(spec.status ?? 204).end()
+      else res.status(spec.status ?? 200).json(out)
+    })
+  }
+}
+
+function prefixed<T extends z.ZodType>(schema: T, value: unknown, where: 'params' | 'query' | 'body'): z.infer<T> {
+  const r = schema.safeParse(value)
+  if (r.success) return r.data
+  const fields = fieldsFromZod(r.error, where === 'body' ? undefined : where)
+  throw new AppError(400, 'validation_failed', `Some ${where === 'body' ? 'fields' : where} are not valid: ${Object.keys(fields).join(', ')}`, fields)
+}

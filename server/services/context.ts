@@ -1,0 +1,14 @@
+import type { Config } from '../config'
+import type { Db } from '../db/database'
+import type { MailService } from './mail.service'
+
+/** What services need from the running process, passed explicitly instead of read from globals. */
+export interface ServiceContext {
+  db: Db
+  config: Config
+  mail: MailService
+  /** HMAC secret for e-mailed links. */
+  linkSecret: string
+  /** Base URL for links in e-mails, e.g. http://127.0.0.1:3000 */
+  publicUrl: () => string
+}

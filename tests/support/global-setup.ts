@@ -1,0 +1,28 @@
+import { execFileSync } from 'node:child_process'
+import pg from 'pg'
+import type { TestProject } from 'vitest/node'
+import { Kysely, PostgresDialect } from 'kysely'
+import { migrateToLatest } from '../../server/db/migrator'
+
+declare module 'vitest' {
+  export interface ProvidedContext {
+    databaseUrl: string
+  }
+}
+
+/** Starts the project cluster and gives each test project a freshly created, migrated database. */
+export default async function setup(project: TestProject) {
+  const out = execFileSync('bash', ['server/cli/pg.sh', 'start', 'postgres'], { encoding: 'utf8' }).trim().split('\n')
+  const adminUrl = out[out.length - 1]!
+  const name = `driftwarden_test_${project.name}`
+  const admin = new pg.Client({ connectionString: adminUrl })
+  await admin.connect()
+  await admin.query(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`)
+  await admin.query(`CREATE DATABASE ${name}`)
+  await admin.end()
+  const url = adminUrl.replace(/\/postgres$/, `/${name}`)
+  const db = new Kysely<any>({ dialect: new PostgresDialect({ pool: new pg.Pool({ connectionString: url, max: 2 }) }) })
+  await migrateToLatest(db)
+  await db.destroy()
+  project.provide('databaseUrl', url)
+}
