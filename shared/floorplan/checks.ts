@@ -30,6 +30,8 @@ export type ProblemCode =
   | 'above_ceiling'
   | 'alarm_order'
   | 'no_sources'
+  /** The engine's scenario schema refused the exported file. */
+  | 'engine_input'
 
 /**
  * One finding of the plan checks. `path` is the dot-joined location in the plan document
@@ -138,7 +140,7 @@ function checkPlacement(plan: Plan, ctx: CheckContext, out: PlanProblem[]): void
   const items = [
     ...plan.sources.map((e, i) => ({ e, i, collection: 'sources', kind: 'Source', height: e.releaseHeightM, heightField: 'releaseHeightM', heightName: 'release height', severity: 'error' as const })),
     ...plan.detectors.map((e, i) => ({ e, i, collection: 'detectors', kind: 'Detector', height: e.mountingHeightM, heightField: 'mountingHeightM', heightName: 'mounting height', severity: 'error' as const })),
-    ...plan.exhausts.map((e, i) => ({ e, i, collection: 'exhausts', kind: 'Exhaust', height: null, heightField: '', heightName: '', severity: 'warning' as const })),
+    ...plan.exhausts.map((e, i) => ({ e, i, collection: 'exhausts', kind: 'Exhaust', height: e.heightM, heightField: 'heightM', heightName: 'height', severity: 'warning' as const })),
     ...plan.workstations.map((e, i) => ({ e, i, collection: 'workstations', kind: 'Workstation', height: e.breathingHeightM, heightField: 'breathingHeightM', heightName: 'breathing height', severity: 'warning' as const })),
   ]
   for (const { e, i, collection, kind, height, heightField, heightName, severity } of items) {

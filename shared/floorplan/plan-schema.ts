@@ -39,7 +39,7 @@ export const Ventilation = z.discriminatedUnion('mode', [
   z.object({ mode: z.literal('ach'), airChangesPerHour: nonNegative.max(1000, 'At most 1000 per hour') }),
   z.object({
     mode: z.literal('downflow'),
-    downflowSpeedMS: nonNegative.max(5, 'At most 5 m/s'),
+    downflowSpeedMS: positive.max(2, 'At most 2 m/s'),
     exhaustFraction: nonNegative.max(1, 'A fraction between 0 and 1'),
   }),
 ])
@@ -92,6 +92,8 @@ export const Source = z.object({
   releaseHeightM: nonNegative.max(20, 'At most 20 m'),
   /** Gas inventory, kg (null when unknown, e.g. a line fed from elsewhere). */
   inventoryKg: nonNegative.nullable(),
+  /** Liquefied gas (ammonia, chlorine…): the pressure is the vapour pressure, held while liquid remains. */
+  liquefied: z.boolean(),
   /** Gauge pressure upstream of the restriction, Pa. */
   pressurePa: nonNegative.max(1e8, 'At most 1000 bar'),
   /** Internal (water) volume of the cylinder, m³ (null for lines). */
@@ -121,8 +123,10 @@ export const Exhaust = z.object({
   name: Label,
   kind: z.enum(EXHAUST_KINDS),
   position: PlanPoint,
+  /** Height of the capture point above the floor, metres. */
+  heightM: nonNegative.max(20, 'At most 20 m'),
   /** Extracted flow, m³/s. */
-  flowM3S: nonNegative.max(100, 'At most 100 m³/s'),
+  flowM3S: positive.max(50, 'At most 50 m³/s'),
 })
 export type Exhaust = z.infer<typeof Exhaust>
 

@@ -9,7 +9,7 @@ export function rectRoom(id: string, x0: number, y0: number, x1: number, y1: num
 
 export function source(id: string, x: number, y: number, gasId = 'NH3'): Source {
   return { id, name: id, kind: 'cylinder', gasId, position: [x, y], releaseHeightM: 1, inventoryKg: 20,
-    pressurePa: 8e5, waterVolumeM3: 0.044, restriction: { kind: 'orifice', diameterM: 0.001 }, dischargeCoefficient: 0.62 }
+    liquefied: true, pressurePa: 8e5, waterVolumeM3: 0.044, restriction: { kind: 'orifice', diameterM: 0.001 }, dischargeCoefficient: 0.62 }
 }
 
 /** Two rooms sharing the wall x = 6, a door on it and a source in the first room. */

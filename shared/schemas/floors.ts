@@ -1,0 +1,131 @@
+import { z } from 'zod'
+import { Plan } from '../floorplan/plan-schema'
+import { Name, Role } from './common'
+
+/** API paths of sites, floors and their images (client and server both build URLs from here). */
+export const FLOOR_API = {
+  sites: '/api/sites',
+  site: (id: number) => `/api/sites/${id}`,
+  siteFloors: (id: number) => `/api/sites/${id}/floors`,
+  people: '/api/sites/people',
+  floors: '/api/floors',
+  floor: (id: number) => `/api/floors/${id}`,
+  floorPlan: (id: number) => `/api/floors/${id}/plan`,
+  floorScenario: (id: number) => `/api/floors/${id}/scenario`,
+  floorImages: (id: number) => `/api/floors/${id}/images`,
+  floorImage: (floorId: number, imageId: number) => `/api/floors/${floorId}/images/${imageId}`,
+} as const
+
+/** Largest floor-plan image accepted, bytes (10 MB). */
+export const MAX_FLOOR_IMAGE_BYTES = 10 * 1024 * 1024
+export const FLOOR_IMAGE_TYPES = ['image/png', 'image/jpeg'] as const
+
+export const Site = z.object({
+  id: z.number().int(),
+  name: z.string(),
+  address: z.string(),
+  floorCount: z.number().int(),
+  createdAt: z.string(),
+})
+export type Site = z.infer<typeof Site>
+export const SiteList = z.object({ sites: z.array(Site) })
+
+export const SiteInput = z.object({
+  name: Name(120),
+  address: z.string().trim().max(300, 'At most 300 characters').default(''),
+})
+export type SiteInput = z.input<typeof SiteInput>
+export const SiteUpdate = SiteInput.partial()
+
+const UserIds = z.array(z.number().int().positive()).max(200).default([])
+
+/** Ceiling height, metres: the engine's domain height. */
+export const CeilingHeightM = z.number().finite().min(1.8, 'At least 1.8 m').max(30, 'At most 30 m')
+
+export const FloorInput = z.object({
+  name: Name(120),
+  ceilingHeightM: CeilingHeightM,
+  /** Lab managers responsible for the floor. */
+  managerIds: UserIds,
+  /** Staff assigned to the floor. */
+  memberIds: UserIds,
+})
+export type FloorInput = z.input<typeof FloorInput>
+export const FloorUpdate = z
+  .object({ name: Name(120), ceilingHeightM: CeilingHeightM, managerIds: UserIds, memberIds: UserIds })
+  .partial()
+export type FloorUpdate = z.input<typeof FloorUpdate>
+
+/** One problem of the plan checks (shared/floorplan/checks.ts). */
+export const PlanProblemSchema = z.object({
+  code: z.string(),
+  severity: z.enum(['error', 'warning']),
+  message: z.string(),
+  path: z.string(),
+  elementIds: z.array(z.string()),
+})
+
+export const FloorSummary = z.object({
+  id: z.number().int(),
+  siteId: z.number().int(),
+  siteName: z.string(),
+  name: z.string(),
+  ceilingHeightM: z.number(),
+  version: z.number().int(),
+  planValid: z.boolean(),
+  roomCount: z.number().int(),
+  sourceCount: z.number().int(),
+  updatedAt: z.string(),
+})
+export type FloorSummary = z.infer<typeof FloorSummary>
+export const FloorList = z.object({ floors: z.array(FloorSummary) })
+
+export const FloorDetail = FloorSummary.extend({
+  managerIds: z.array(z.number().int()),
+  memberIds: z.array(z.number().int()),
+  plan: Plan,
+  problems: z.array(PlanProblemSchema),
+  /** Whether the caller may edit (admins and EHS officers). */
+  canEdit: z.boolean(),
+})
+export type FloorDetail = z.infer<typeof FloorDetail>
+
+export const SavePlanInput = z.object({
+  /** The version the edit started from; a different current version answers 409 stale_version. */
+  version: z.number().int().positive(),
+  plan: Plan,
+})
+export type SavePlanInput = z.input<typeof SavePlanInput>
+export const SavePlanResult = z.object({
+  version: z.number().int(),
+  planValid: z.boolean(),
+  problems: z.array(PlanProblemSchema),
+  updatedAt: z.string(),
+})
+export type SavePlanResult = z.infer<typeof SavePlanResult>
+
+export const ScenarioExportQuery = z.object({
+  /** Gas to simulate; only sources of this gas are exported. Default: the gas of the first source. */
+  gasId: z.string().trim().min(1).max(32).optional(),
+  durationS: z.coerce.number().positive().max(86400).default(900),
+  cellM: z.coerce.number().min(0.05).max(2).default(0.2),
+})
+
+export const Person = z.object({ id: z.number().int(), name: z.string(), role: Role })
+export const PeopleList = z.object({ people: z.array(Person) })
+export type Person = z.infer<typeof Person>
+
+export const FloorImage = z.object({
+  id: z.number().int(),
+  floorId: z.number().int(),
+  mime: z.enum(FLOOR_IMAGE_TYPES),
+  byteSize: z.number().int(),
+  fileName: z.string(),
+  createdAt: z.string(),
+})
+export type FloorImage = z.infer<typeof FloorImage>
+
+export const FloorImageParams = z.object({
+  id: z.coerce.number().int().positive(),
+  imageId: z.coerce.number().int().positive(),
+})
