@@ -1,9 +1,10 @@
 import type {
   AppSecretsTable, AuditLogTable, AuthTokensTable, CapturedMailTable, OrganizationsTable, OutgoingMailTable, UsersTable,
 } from './tables/foundation'
+import type { FloorTables } from './tables/floors'
 
 /** The whole database as Kysely sees it; each feature's tables live in ./tables. */
-export interface Database {
+export interface Database extends FloorTables {
   organizations: OrganizationsTable
   users: UsersTable
   auth_tokens: AuthTokensTable

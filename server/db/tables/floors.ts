@@ -48,3 +48,11 @@ export interface FloorImagesTable {
   created_by: number | null
   created_at: Generated<Date>
 }
+
+/** The tables of this feature, merged into the Database interface (server/db/schema.ts). */
+export interface FloorTables {
+  sites: SitesTable
+  floors: FloorsTable
+  floor_members: FloorMembersTable
+  floor_images: FloorImagesTable
+}
