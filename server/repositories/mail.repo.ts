@@ -92,3 +92,7 @@ export const listCapturedForOrg = (db: Db, orgId: number, limit = 200) =>
     .orderBy('id', 'desc')
     .limit(limit)
     .execute()
+
+/** Captured mail to one address, newest first. */
+export const listCapturedTo = (db: Db, address: string) =>
+  db.selectFrom('captured_mail').selectAll().where(sql<boolean>`${address.toLowerCase()} = any(envelope_to)`).orderBy('id', 'desc').execute()

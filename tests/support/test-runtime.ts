@@ -9,6 +9,7 @@ import { startBackground } from '../../server/background'
 import type { Db } from '../../server/db/database'
 import { insertOrg } from '../../server/repositories/orgs.repo'
 import { insertUser } from '../../server/repositories/users.repo'
+import { listCapturedTo } from '../../server/repositories/mail.repo'
 import { hashPassword } from '../../server/services/passwords'
 import type { Role } from '../../shared/schemas/common'
 
@@ -81,7 +82,7 @@ export async function createOtherOrg(db: Db, config: Config) {
 export async function waitForMail(db: Db, to: string, subject: RegExp, timeoutMs = 15_000) {
   const t0 = Date.now()
   for (;;) {
-    const rows = await db.selectFrom('captured_mail').selectAll().where('envelope_to', '@>', [to.toLowerCase()] as never).orderBy('id', 'desc').execute()
+    const rows = await listCapturedTo(db, to)
     const hit = rows.find((r) => subject.test(r.subject))
     if (hit) return hit
     if (Date.now() - t0 > timeoutMs) throw new Error(`No mail to ${to} matching ${subject} within ${timeoutMs} ms`)
