@@ -7,6 +7,7 @@ import { migrateToLatest } from './db/migrator'
 import { startMailDispatcher, type MailDispatcher } from './mail/dispatcher'
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp'
 import { createMailTransport } from './mail/transport'
+import { JobQueue } from './jobs/queue'
 import { getOrCreateSecret } from './repositories/secrets.repo'
 import type { ServiceContext } from './services/context'
 import { MailService } from './services/mail.service'
@@ -34,6 +35,7 @@ export async function startRuntime(config: Config, databaseUrl: string, opts: { 
   const fakeSmtp = config.smtpUrl ? null : await startFakeSmtp(handle.db, config.fakeSmtpPort)
   const transport = createMailTransport({ smtpUrl: config.smtpUrl, fakePort: fakeSmtp?.port })
   const dispatcher = startMailDispatcher(handle.db, transport, { from: config.mailFrom })
+  const jobs = await JobQueue.start(databaseUrl)
 
   let boundUrl = config.publicUrl ?? `http://${config.host}:${config.port}`
   const ctx: ServiceContext = {
@@ -42,6 +44,7 @@ export async function startRuntime(config: Config, databaseUrl: string, opts: { 
     mail: new MailService(handle.db, dispatcher, !!fakeSmtp),
     linkSecret,
     publicUrl: () => config.publicUrl ?? boundUrl,
+    jobs,
   }
   const { app } = createApp(ctx, { pool: handle.pool, sessionSecret, clientDir: opts.clientDir === undefined ? DEFAULT_CLIENT_DIR : opts.clientDir })
 
@@ -64,6 +67,7 @@ export async function startRuntime(config: Config, databaseUrl: string, opts: { 
       for (const fn of closers.reverse()) await fn()
       await new Promise<void>((r) => (server ? server.close(() => r()) : r()))
       server?.closeAllConnections?.()
+      await jobs.stop()
       await dispatcher.stop()
       await fakeSmtp?.close()
       transport.close()

@@ -1,5 +1,6 @@
 import type { Config } from '../config'
 import type { Db } from '../db/database'
+import type { JobQueue } from '../jobs/queue'
 import type { MailService } from './mail.service'
 
 /** What services need from the running process, passed explicitly instead of read from globals. */
@@ -11,4 +12,6 @@ export interface ServiceContext {
   linkSecret: string
   /** Base URL for links in e-mails, e.g. http://127.0.0.1:3000 */
   publicUrl: () => string
+  /** The pg-boss job queue shared by simulations and scheduled notices. */
+  jobs: JobQueue
 }

@@ -20,7 +20,7 @@ describe('POST /api/auth/login', () => {
     const a = await apiAgent(rt)
     const res = await a.post('/api/auth/login').send({ email: admin.email, password: admin.password }).expect(200)
     expect(res.body).toMatchObject({ email: admin.email, role: 'admin' })
-    const cookie = res.headers['set-cookie']!.find((c: string) => c.startsWith('dw_sid='))!
+    const cookie = (res.headers['set-cookie'] as unknown as string[]).find((c: string) => c.startsWith('dw_sid='))!
     expect(cookie).toMatch(/HttpOnly/i)
     expect(cookie).toMatch(/SameSite=Lax/i)
     await a.get('/api/auth/me').expect(200)
@@ -37,9 +37,9 @@ describe('POST /api/auth/login', () => {
     const a = await apiAgent(rt)
     await a.post('/api/auth/login').send({ email: staff.email, password: 'wrong-once' }).expect(401)
     const first = await a.post('/api/auth/login').send({ email: staff.email, password: staff.password }).expect(200)
-    const sid1 = first.headers['set-cookie']!.find((c: string) => c.startsWith('dw_sid='))!
+    const sid1 = (first.headers['set-cookie'] as unknown as string[]).find((c: string) => c.startsWith('dw_sid='))!
     const second = await a.post('/api/auth/login').send({ email: staff.email, password: staff.password }).expect(200)
-    const sid2 = second.headers['set-cookie']!.find((c: string) => c.startsWith('dw_sid='))!
+    const sid2 = (second.headers['set-cookie'] as unknown as string[]).find((c: string) => c.startsWith('dw_sid='))!
     expect(sid1.split(';')[0]).not.toBe(sid2.split(';')[0])
   })
 

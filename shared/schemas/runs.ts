@@ -1,0 +1,123 @@
+import { z } from 'zod'
+
+/**
+ * Scenarios, runs and their summaries. The summary is what plans, drills and the results page read;
+ * the bulky per-cell data (snapshots, fronts) is stored separately as Float32 frames.
+ */
+
+/** The ventilation condition a scenario assumes, so the same leak can be compared under several. */
+export const VENTILATION_STATES = ['normal', 'exhaust_failed', 'door_propped_open', 'downflow_off'] as const
+export const VentilationState = z.enum(VENTILATION_STATES)
+export type VentilationState = z.infer<typeof VentilationState>
+export const VENTILATION_STATE_LABELS: Record<VentilationState, string> = {
+  normal: 'Normal ventilation',
+  exhaust_failed: 'Exhaust failed (local exhausts and room extract off)',
+  door_propped_open: 'Door propped open',
+  downflow_off: 'Cleanroom downflow off',
+}
+
+/** What an officer saves as a scenario on a floor. */
+export const ScenarioConfig = z.object({
+  name: z.string().trim().min(1, 'Required').max(120),
+  /** Plan source ids that leak together (a sweep runs each of them alone instead). */
+  sourceIds: z.array(z.string().min(1)).min(1, 'Pick at least one source').max(50),
+  /** Release basis: the whole contents blowing down through the valve orifice or capped by the RFO. */
+  release: z.enum(['blowdown', 'constant']).default('blowdown'),
+  /** For release = constant: pure-gas flow, m³/s at 25 °C and 1 atm. */
+  constantRateM3S: z.number().positive().max(10).optional(),
+  durationS: z.number().int().min(60, 'At least 60 s').max(4 * 3600, 'At most 4 hours'),
+  outputIntervalS: z.number().int().min(1).max(600).default(10),
+  ventilationState: VentilationState.default('normal'),
+  /** For door_propped_open: the opening ids held open. */
+  proppedOpeningIds: z.array(z.string()).max(50).default([]),
+  /** Overrides the engine's documented eddy-diffusivity estimate, m²/s. */
+  diffusivityM2S: z.number().positive().max(1).optional(),
+  cellM: z.number().min(0.1).max(2).default(0.25),
+  layers: z.number().int().min(1).max(30).default(6),
+})
+export type ScenarioConfig = z.infer<typeof ScenarioConfig>
+
+export const RUN_STATUSES = ['queued', 'running', 'succeeded', 'failed', 'cancelled'] as const
+export const RunStatus = z.enum(RUN_STATUSES)
+export type RunStatus = z.infer<typeof RunStatus>
+
+/** One limit line: its key, a label naming it and its source, and the level in the display unit. */
+export const LimitLine = z.object({
+  /** e.g. "rel_twa", "rel_stel", "ceiling", "idlh", "lel_10", "lel_25", "o2_19_5", "alarm_low", "alarm_high". */
+  key: z.string(),
+  label: z.string(),
+  /** Concentration of the released gas at this limit, ppm (for oxygen: the ppm that brings O2 to the level). */
+  ppm: z.number(),
+  /** Where the value comes from (NIOSH Pocket Guide, OSHA Z-1, 29 CFR 1910.134, common practice...). */
+  source: z.string(),
+})
+export type LimitLine = z.infer<typeof LimitLine>
+
+/** A detector or workstation's predicted exposure. Times are seconds from the start of the release; null = never within the run. */
+export const ReceptorSummary = z.object({
+  id: z.string(),
+  kind: z.enum(['detector', 'workstation']),
+  name: z.string(),
+  roomId: z.string().nullable(),
+  roomName: z.string().nullable(),
+  peakPpm: z.number(),
+  peakTimeS: z.number(),
+  /** Highest 15-minute average, ppm. */
+  maxStelPpm: z.number(),
+  /** Time at which each limit (LimitLine.key) is first exceeded. */
+  firstExceedS: z.record(z.string(), z.number().nullable()),
+  /** Detectors only: their own set points and when they trip. */
+  alarmLowPpm: z.number().nullable(),
+  alarmHighPpm: z.number().nullable(),
+  alarmLowS: z.number().nullable(),
+  alarmHighS: z.number().nullable(),
+})
+export type ReceptorSummary = z.infer<typeof ReceptorSummary>
+
+/** Per room: the first time any breathing-height cell of the room crosses a critical level. */
+export const RoomSummary = z.object({
+  id: z.string(),
+  name: z.string(),
+  kind: z.string(),
+  peakPpm: z.number(),
+  firstExceedS: z.record(z.string(), z.number().nullable()),
+  /** Room-average concentration at the end of the run, ppm. */
+  finalMeanPpm: z.number(),
+})
+export type RoomSummary = z.infer<typeof RoomSummary>
+
+/** The compact result every downstream feature (plans, drills, PDFs) reads. */
+export const RunSummary = z.object({
+  gas: z.object({ id: z.string(), name: z.string(), asphyxiant: z.boolean(), flammable: z.boolean(), pyrophoric: z.boolean(), molarMassGMol: z.number() }),
+  limits: z.array(LimitLine),
+  sources: z.array(z.object({ id: z.string(), name: z.string(), roomId: z.string().nullable(), releasedM3: z.number(), inventoryM3: z.number().nullable(), description: z.string() })),
+  durationS: z.number(),
+  outputIntervalS: z.number(),
+  ventilationState: VentilationState,
+  diffusivityM2S: z.number(),
+  diffusivityBasis: z.string(),
+  massBalance: z.object({ releasedM3: z.number(), inAirM3: z.number(), removedM3: z.number(), closureError: z.number() }),
+  receptors: z.array(ReceptorSummary),
+  rooms: z.array(RoomSummary),
+  /** The first detector to reach its low (warning) alarm, if any. */
+  firstAlarm: z.object({ detectorId: z.string(), level: z.enum(['low', 'high']), timeS: z.number() }).nullable(),
+  cells: z.number(),
+  wallS: z.number(),
+  notes: z.array(z.string()),
+})
+export type RunSummary = z.infer<typeof RunSummary>
+
+export const Run = z.object({
+  id: z.number().int(),
+  scenarioId: z.number().int().nullable(),
+  floorId: z.number().int(),
+  batchId: z.number().int().nullable(),
+  label: z.string(),
+  status: RunStatus,
+  progress: z.number().min(0).max(1),
+  message: z.string().nullable(),
+  createdAt: z.string(),
+  finishedAt: z.string().nullable(),
+  summary: RunSummary.nullable(),
+})
+export type Run = z.infer<typeof Run>
