@@ -46,7 +46,7 @@ export const GAS_LIBRARY: readonly Gas[] = [
     limits: { rel_twa_ppm: 25, rel_stel_ppm: 35, pel_twa_ppm: 50, idlh_ppm: 300 },
     lel_pct: 15, uel_pct: 28, gamma: 1.31, diffusivity_m2_s: cm2(0.232), diffusivity_method: 'measured',
     notes: 'Cold releases of liquefied ammonia sink at first despite M < 29.',
-    sources: { limits: `${NPG}; ${IDLH('7664-41-7')} (verified)`, lel_pct: 'gas-supplier data sheet (partly verified)', gamma: GAMMA, diffusivity_m2_s: MASSMAN } }),
+    sources: { limits: `${NPG}; ${PEL}; ${IDLH("7664-41-7")} (verified)`, lel_pct: 'gas-supplier data sheet (partly verified)', gamma: GAMMA, diffusivity_m2_s: MASSMAN } }),
   entry({ id: 'Cl2', name: 'Chlorine', cas: '7782-50-5', molar_mass_g_mol: 70.906, oxidizer: true,
     limits: { rel_ceiling_ppm: 0.5, pel_ceiling_ppm: 1, idlh_ppm: 10 },
     lel_pct: null, uel_pct: null, gamma: 1.32, diffusivity_m2_s: fuller(70.906, V.Cl2), diffusivity_method: 'fuller',

@@ -1,0 +1,253 @@
+import { pointInPolygon, type Point } from '../geometry/polygon'
+import type { Gas } from '../gases/gas-schema'
+import { chooseDiffusivity } from './eddy-diffusivity'
+import { releaseHistory, type ReleaseHistory } from './releases'
+import type { Scenario } from './scenario-schema'
+
+/**
+ * The discretised problem: a cell-centred Cartesian grid over the rooms' bounding box, index
+ * p = i + nx·(j + ny·k), cell edges at whole multiples of cell_m from the origin. Face coefficients
+ * are rates (s⁻¹) per unit concentration difference, already divided by the (uniform) cell volume:
+ * for the face between p and its +axis neighbour q, `fwd*[p]` multiplies C_p in the flux p→q and
+ * `bwd*[p]` multiplies C_q in the flux q→p (diffusive conductance plus upwind advection).
+ */
+export interface Model {
+  nx: number; ny: number; nz: number
+  /** Plan cell size and layer height, m. */
+  h: number; dz: number
+  /** Grid origin (x, y of the lower-left cell corner), m. */
+  x0: number; y0: number
+  /** Cell volume, m³. */
+  cellVolume: number
+  /** Per plan cell: room index, -1 for non-air. */
+  roomOfPlan: Int16Array
+  airCells: number
+  fwdX: Float64Array; bwdX: Float64Array
+  fwdY: Float64Array; bwdY: Float64Array
+  fwdZ: Float64Array; bwdZ: Float64Array
+  /** Per plan cell: outflow rate through the floor (downflow), s⁻¹ on the bottom layer. */
+  floorOut: Float64Array
+  /** Dilution removal rate per room, s⁻¹. */
+  roomDecay: Float64Array
+  /** Local exhaust cells and their removal rates, s⁻¹. */
+  exhaustCells: Int32Array; exhaustRates: Float64Array
+  /** Cleanroom return paths (one per downflow room). */
+  returns: { room: number; flow: number; volume: number; exhaustFraction: number; topCells: Int32Array }[]
+  sources: { id: string; cell: number; history: ReleaseHistory }[]
+  probes: { id: string; cells: Int32Array; weights: Float64Array }[]
+  /** Breathing-height interpolation: lower layer, upper layer, weight of the upper layer. */
+  bhK0: number; bhK1: number; bhW: number
+  diffusivity: number
+  diffusivityBasis: string
+  roomIds: string[]
+}
+
+const EPS = 1e-9
+
+/** Fraction of the face covered by segment a–b. The face is normal to `axis` (0: x, 1: y) at coordinate `f`,
+ * spans [s0, s0 + h] along the other axis; the segment must lie within the slab between the two cell centres. */
+function coveredFraction(a: Point, b: Point, axis: 0 | 1, f: number, s0: number, h: number): number {
+  const o = 1 - axis
+  const sa = a[o], sb = b[o], na = a[axis], nb = b[axis]
+  const ds = sb - sa
+  if (Math.abs(ds) < EPS) return 0
+  // Clip the segment parameter to the strip along the face.
+  let t0 = (s0 - sa) / ds, t1 = (s0 + h - sa) / ds
+  if (t0 > t1) [t0, t1] = [t1, t0]
+  t0 = Math.max(t0, 0); t1 = Math.min(t1, 1)
+  if (t1 <= t0) return 0
+  // Keep the part within the slab between the two cell centres (f ± h/2).
+  const dn = nb - na
+  if (Math.abs(dn) > EPS) {
+    let u0 = (f - h / 2 - na) / dn, u1 = (f + h / 2 - na) / dn
+    if (u0 > u1) [u0, u1] = [u1, u0]
+    t0 = Math.max(t0, u0); t1 = Math.min(t1, u1)
+    if (t1 <= t0) return 0
+  } else if (Math.abs(na - f) > h / 2 + EPS) return 0
+  return (Math.abs(ds) * (t1 - t0)) / h
+}
+
+/** Build the grid, the face coefficients and the source/probe/exhaust maps of a validated scenario. */
+export function buildModel(s: Scenario, gas: Gas): Model {
+  const h = s.grid.cell_m, nz = s.grid.layers, dz = s.ceiling_m / nz
+  let bx0 = Infinity, by0 = Infinity, bx1 = -Infinity, by1 = -Infinity
+  for (const r of s.rooms) for (const [x, y] of r.polygon_m) {
+    bx0 = Math.min(bx0, x); by0 = Math.min(by0, y); bx1 = Math.max(bx1, x); by1 = Math.max(by1, y)
+  }
+  const i0 = Math.floor(bx0 / h + EPS), j0 = Math.floor(by0 / h + EPS)
+  const nx = Math.ceil(bx1 / h - EPS) - i0, ny = Math.ceil(by1 / h - EPS) - j0
+  const x0 = i0 * h, y0 = j0 * h
+  const nPlan = nx * ny, n = nPlan * nz
+  const cellVolume = h * h * dz
+
+  const roomOfPlan = new Int16Array(nPlan).fill(-1)
+  let airPlan = 0
+  for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
+    const c: Point = [x0 + (i + 0.5) * h, y0 + (j + 0.5) * h]
+    for (let r = 0; r < s.rooms.length; r++) {
+      if (pointInPolygon(c, s.rooms[r]!.polygon_m)) { roomOfPlan[i + nx * j] = r; airPlan++; break }
+    }
+  }
+  const { value: D, basis } = chooseDiffusivity(s, gas)
+  const roomIndex = new Map(s.rooms.map((r, k) => [r.id, k]))
+
+  // Plan-face open fractions (full height) and bottom-layer-only leak fractions (door undercuts).
+  const openX = new Float64Array(nPlan), openY = new Float64Array(nPlan)
+  const leakX = new Float64Array(nPlan), leakY = new Float64Array(nPlan)
+  const flowX = new Float64Array(nPlan), flowY = new Float64Array(nPlan) // m³/s per face summed over its layers
+  const flowBottomX = new Uint8Array(nPlan), flowBottomY = new Uint8Array(nPlan)
+  const faceIter = (fn: (axis: 0 | 1, p: number, q: number, f: number, s0: number) => void) => {
+    for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
+      const p = i + nx * j
+      if (i + 1 < nx) fn(0, p, p + 1, x0 + (i + 1) * h, y0 + j * h)
+      if (j + 1 < ny) fn(1, p, p + nx, y0 + (j + 1) * h, x0 + i * h)
+    }
+  }
+  faceIter((axis, p, q, f, s0) => {
+    const rp = roomOfPlan[p]!, rq = roomOfPlan[q]!
+    if (rp < 0 || rq < 0) return
+    const open = axis === 0 ? openX : openY, leak = axis === 0 ? leakX : leakY
+    if (rp === rq) { open[p] = 1; return }
+    for (const o of s.openings) {
+      const frac = coveredFraction(o.segment_m[0], o.segment_m[1], axis, f, s0, h)
+      if (frac <= 0) continue
+      if (o.open) open[p] = Math.min(1, open[p]! + frac)
+      else if (o.undercut_m) leak[p] = Math.min(1, leak[p]! + frac * Math.min(1, o.undercut_m / dz))
+    }
+  })
+  // Transfer air: each opening's flow is shared among its faces in proportion to covered length.
+  for (const o of s.openings) {
+    if (!o.transfer || o.transfer.flow_m3_s === 0 || (!o.open && !o.undercut_m)) continue
+    const into = roomIndex.get(o.transfer.into)!
+    const faces: { axis: 0 | 1; p: number; frac: number; sign: number }[] = []
+    faceIter((axis, p, q, f, s0) => {
+      const rp = roomOfPlan[p]!, rq = roomOfPlan[q]!
+      if (rp < 0 || rq < 0 || rp === rq || (rp !== into && rq !== into)) return
+      const frac = coveredFraction(o.segment_m[0], o.segment_m[1], axis, f, s0, h)
+      if (frac > 0) faces.push({ axis, p, frac, sign: rq === into ? 1 : -1 })
+    })
+    const total = faces.reduce((a, x) => a + x.frac, 0)
+    for (const fc of faces) {
+      const share = (o.transfer.flow_m3_s * fc.frac) / total
+      if (fc.axis === 0) { flowX[fc.p] += fc.sign * share; if (!o.open) flowBottomX[fc.p] = 1 }
+      else { flowY[fc.p] += fc.sign * share; if (!o.open) flowBottomY[fc.p] = 1 }
+    }
+  }
+
+  const fwdX = new Float64Array(n), bwdX = new Float64Array(n)
+  const fwdY = new Float64Array(n), bwdY = new Float64Array(n)
+  const fwdZ = new Float64Array(n), bwdZ = new Float64Array(n)
+  const gh = D / (h * h), gz = D / (dz * dz)
+  for (let k = 0; k < nz; k++) for (let pp = 0; pp < nPlan; pp++) {
+    const p = pp + nPlan * k
+    const fillPlan = (open: Float64Array, leak: Float64Array, flow: Float64Array, bottomOnly: Uint8Array, fwd: Float64Array, bwd: Float64Array) => {
+      const frac = open[pp]! + (k === 0 ? leak[pp]! : 0)
+      const g = gh * Math.min(frac, 1)
+      let u = 0
+      if (flow[pp] !== 0) u = bottomOnly[pp] ? (k === 0 ? flow[pp]! / cellVolume : 0) : flow[pp]! / nz / cellVolume
+      fwd[p] = g + (u > 0 ? u : 0)
+      bwd[p] = g + (u < 0 ? -u : 0)
+    }
+    fillPlan(openX, leakX, flowX, flowBottomX, fwdX, bwdX)
+    fillPlan(openY, leakY, flowY, flowBottomY, fwdY, bwdY)
+  }
+  // Vertical faces, with cleanroom downflow carried upwind (downward: C of the upper cell).
+  const floorOut = new Float64Array(nPlan)
+  const returns: Model['returns'] = []
+  const topCellsOf: number[][] = s.rooms.map(() => [])
+  for (let pp = 0; pp < nPlan; pp++) {
+    const r = roomOfPlan[pp]!
+    if (r < 0) continue
+    const w = s.rooms[r]!.ventilation.downflow?.speed_m_s ?? 0
+    for (let k = 0; k + 1 < nz; k++) {
+      fwdZ[pp + nPlan * k] = gz
+      bwdZ[pp + nPlan * k] = gz + w / dz
+    }
+    if (w > 0) { floorOut[pp] = w / dz; topCellsOf[r]!.push(pp + nPlan * (nz - 1)) }
+  }
+  s.rooms.forEach((room, r) => {
+    const df = room.ventilation.downflow
+    if (!df) return
+    const cells = topCellsOf[r]!
+    const area = cells.length * h * h
+    returns.push({ room: r, flow: df.speed_m_s * area, volume: df.return_volume_m3 ?? area * 1.0, exhaustFraction: df.exhaust_fraction, topCells: Int32Array.from(cells) })
+  })
+  const roomDecay = Float64Array.from(s.rooms, (r) => r.ventilation.air_changes_per_hour / 3600)
+
+  const cellOf = (pos: readonly [number, number, number]): number => nearestAirCell(pos)
+  const nearestAirCell = (pos: readonly [number, number, number]): number => {
+    const room = s.rooms.findIndex((r) => pointInPolygon([pos[0], pos[1]], r.polygon_m))
+    const ci = Math.min(nx - 1, Math.max(0, Math.floor((pos[0] - x0) / h)))
+    const cj = Math.min(ny - 1, Math.max(0, Math.floor((pos[1] - y0) / h)))
+    const ck = Math.min(nz - 1, Math.max(0, Math.floor(pos[2] / dz)))
+    const pc = ci + nx * cj
+    if (roomOfPlan[pc]! >= 0 && (room < 0 || roomOfPlan[pc] === room)) return pc + nPlan * ck
+    // The point's own cell centre lies outside its room (near a wall): take the nearest cell of that room.
+    let best = -1, bd = Infinity
+    for (let j = Math.max(0, cj - 3); j <= Math.min(ny - 1, cj + 3); j++) for (let i = Math.max(0, ci - 3); i <= Math.min(nx - 1, ci + 3); i++) {
+      const rr = roomOfPlan[i + nx * j]!
+      if (rr < 0 || (room >= 0 && rr !== room)) continue
+      const d = (x0 + (i + 0.5) * h - pos[0]) ** 2 + (y0 + (j + 0.5) * h - pos[1]) ** 2
+      if (d < bd) { bd = d; best = i + nx * j }
+    }
+    if (best < 0) throw new Error(`no air cell near (${pos[0]}, ${pos[1]}); the room is thinner than one cell`)
+    return best + nPlan * ck
+  }
+
+  const horizon = s.duration_s
+  const orifice = { molarMass: gas.molar_mass_g_mol / 1000, gamma: gas.gamma }
+  const sources = s.sources.map((src) => ({ id: src.id, cell: cellOf(src.position_m), history: releaseHistory(src.release, orifice, horizon) }))
+
+  // Probes: trilinear weights over the 8 surrounding cell centres, restricted to air cells of the
+  // probe's room and renormalised; outside the outermost centres the value is held constant.
+  const probes = s.probes.map((pr) => {
+    const home = cellOf(pr.position_m)
+    const room = roomOfPlan[home % nPlan]!
+    const axis = (v: number, n0: number, step: number) => {
+      const f = Math.min(Math.max(v / step - 0.5, 0), n0 - 1)
+      const a = Math.min(Math.floor(f), Math.max(n0 - 2, 0))
+      return [a, f - a] as const
+    }
+    const [ia, tx] = axis(pr.position_m[0] - x0, nx, h)
+    const [ja, ty] = axis(pr.position_m[1] - y0, ny, h)
+    const [ka, tz] = axis(pr.position_m[2], nz, dz)
+    const cells: number[] = [], weights: number[] = []
+    for (let c = 0; c < 8; c++) {
+      const di = c & 1, dj = (c >> 1) & 1, dk = (c >> 2) & 1
+      const i = Math.min(ia + di, nx - 1), j = Math.min(ja + dj, ny - 1), k = Math.min(ka + dk, nz - 1)
+      const wgt = (di ? tx : 1 - tx) * (dj ? ty : 1 - ty) * (dk ? tz : 1 - tz)
+      if (wgt <= 0 || roomOfPlan[i + nx * j] !== room) continue
+      cells.push(i + nx * j + nPlan * k); weights.push(wgt)
+    }
+    const wsum = weights.reduce((a, b) => a + b, 0)
+    if (cells.length === 0 || wsum < 1e-12) return { id: pr.id, cells: Int32Array.of(home), weights: Float64Array.of(1) }
+    return { id: pr.id, cells: Int32Array.from(cells), weights: Float64Array.from(weights, (w) => w / wsum) }
+  })
+
+  // Local exhausts: the flow is shared by the air cells of the exhaust's room within the capture radius.
+  const exCells: number[] = [], exRates: number[] = []
+  for (const ex of s.local_exhausts) {
+    const home = cellOf(ex.position_m)
+    const room = roomOfPlan[home % nPlan]!
+    const rad = ex.capture_radius_m ?? 0.75 * Math.max(h, dz)
+    const list: number[] = []
+    for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
+      if (roomOfPlan[i + nx * j] !== room) continue
+      const d2 = (x0 + (i + 0.5) * h - ex.position_m[0]) ** 2 + (y0 + (j + 0.5) * h - ex.position_m[1]) ** 2 + ((k + 0.5) * dz - ex.position_m[2]) ** 2
+      if (d2 <= rad * rad) list.push(i + nx * j + nPlan * k)
+    }
+    if (list.length === 0) list.push(home)
+    for (const c of list) { exCells.push(c); exRates.push(ex.flow_m3_s / (list.length * cellVolume)) }
+  }
+
+  const kf = Math.min(Math.max(s.breathing_height_m / dz - 0.5, 0), nz - 1)
+  const bhK0 = Math.min(Math.floor(kf), Math.max(nz - 2, 0))
+  const bhK1 = Math.min(bhK0 + 1, nz - 1)
+  return {
+    nx, ny, nz, h, dz, x0, y0, cellVolume, roomOfPlan, airCells: airPlan * nz,
+    fwdX, bwdX, fwdY, bwdY, fwdZ, bwdZ, floorOut, roomDecay,
+    exhaustCells: Int32Array.from(exCells), exhaustRates: Float64Array.from(exRates), returns,
+    sources, probes, bhK0, bhK1, bhW: bhK1 === bhK0 ? 0 : kf - bhK0,
+    diffusivity: D, diffusivityBasis: basis, roomIds: s.rooms.map((r) => r.id),
+  }
+}
