@@ -1,0 +1,189 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { mkdirSync } from 'node:fs'
+import path from 'node:path'
+import type { Browser, BrowserContext, Page } from 'playwright-core'
+import { DEMO_ACCOUNTS } from '../../server/seed/demo-accounts'
+import { ARTIFACTS, launchBrowser } from '../support/browser'
+import { startTestServer } from '../support/test-server'
+
+const LAPTOP = { width: 1366, height: 768 }
+const TABLET = { width: 820, height: 1180 }
+
+/** Viewport-sized screenshot with Quasar's transitions (dialogs, menus, drawer) finished, not caught half-way. */
+async function screenshot(page: Page, name: string) {
+  mkdirSync(ARTIFACTS, { recursive: true })
+  await page.screenshot({ path: path.join(ARTIFACTS, `${name}.png`), animations: 'disabled' })
+}
+
+const account = (role: string) => {
+  const found = DEMO_ACCOUNTS.find((a) => a.role === role)
+  if (!found) throw new Error(`No demo account for ${role}`)
+  return found
+}
+
+describe('client shell', () => {
+  let server: Awaited<ReturnType<typeof startTestServer>>
+  let browser: Browser
+
+  beforeAll(async () => {
+    server = await startTestServer()
+    browser = await launchBrowser()
+  })
+
+  afterAll(async () => {
+    await browser?.close()
+    await server?.close()
+  })
+
+  /** A fresh browser context (no cookies) that fails the test on any page error or console error. */
+  async function openPage(viewport: { width: number; height: number }): Promise<{ context: BrowserContext; page: Page; problems: string[] }> {
+    const context = await browser.newContext({ viewport })
+    const page = await context.newPage()
+    const problems: string[] = []
+    page.on('pageerror', (error) => problems.push(`pageerror: ${error.message}`))
+    page.on('console', (message) => {
+      // The expected 401 from "who am I" while signed out is logged by the browser as a failed resource.
+      if (message.type() === 'error' && !/401/.test(message.text())) problems.push(`console: ${message.text()}`)
+    })
+    return { context, page, problems }
+  }
+
+  async function signIn(page: Page, email: string, password: string) {
+    await page.getByLabel('E-mail address').fill(email)
+    await page.getByLabel('Password', { exact: true }).fill(password)
+    await page.getByRole('button', { name: 'Sign in' }).click()
+  }
+
+  it('when signed out, a deep link leads to sign-in and back after signing in', async () => {
+    const { context, page, problems } = await openPage(LAPTOP)
+    const admin = account('admin')
+    await page.goto(`${server.url}/admin/users`)
+    await page.getByRole('heading', { name: 'Sign in' }).waitFor()
+    expect(new URL(page.url()).searchParams.get('redirect')).toBe('/admin/users')
+    await screenshot(page, 'shell-sign-in-1366')
+
+    await signIn(page, admin.email, 'not-the-password')
+    await expect.poll(() => page.getByRole('alert').first().textContent()).toMatch(/do not match/)
+    await screenshot(page, 'shell-sign-in-wrong-1366')
+
+    await signIn(page, admin.email, admin.password)
+    await page.getByRole('heading', { name: 'Users' }).waitFor()
+    expect(new URL(page.url()).pathname).toBe('/admin/users')
+    expect(problems).toEqual([])
+    await context.close()
+  })
+
+  it('as the demo admin, shows the shell with the admin navigation and the users table at laptop width', async () => {
+    const { context, page, problems } = await openPage(LAPTOP)
+    const admin = account('admin')
+    await page.goto(`${server.url}/`)
+    await signIn(page, admin.email, admin.password)
+
+    await page.getByRole('heading', { name: /^Welcome,/ }).waitFor()
+    await expect.poll(() => page.getByTestId('user-menu').textContent()).toContain(admin.name)
+    const nav = page.getByRole('navigation', { name: 'Main' })
+    await expect.poll(() => nav.getByRole('link', { name: 'Overview' }).isVisible()).toBe(true)
+    await expect.poll(() => nav.getByRole('link', { name: 'Users' }).isVisible()).toBe(true)
+    await expect.poll(() => nav.getByRole('link', { name: 'Outbox' }).isVisible()).toBe(true)
+    await screenshot(page, 'shell-overview-admin-1366')
+
+    await nav.getByRole('link', { name: 'Users' }).click()
+    await page.getByRole('heading', { name: 'Users' }).waitFor()
+    const table = page.getByTestId('users-table')
+    for (const demo of DEMO_ACCOUNTS) await expect.poll(() => table.textContent()).toContain(demo.email)
+    await screenshot(page, 'shell-users-1366')
+
+    await page.getByRole('button', { name: 'Invite a person' }).click()
+    await page.getByRole('dialog').getByRole('heading', { name: 'Invite a person' }).waitFor()
+    await screenshot(page, 'shell-invite-dialog-1366')
+    await page.getByRole('dialog').getByRole('button', { name: 'Cancel' }).click()
+
+    await page.getByTestId('user-menu').click()
+    await page.getByRole('button', { name: 'Sign out' }).waitFor()
+    await screenshot(page, 'shell-user-menu-1366')
+    expect(problems).toEqual([])
+    await context.close()
+  })
+
+  it('at tablet width, the drawer starts closed and opens from the menu button', async () => {
+    const { context, page, problems } = await openPage(TABLET)
+    const admin = account('admin')
+    await page.goto(`${server.url}/admin/users`)
+    await signIn(page, admin.email, admin.password)
+    await page.getByRole('heading', { name: 'Users' }).waitFor()
+    const usersLink = page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Users' })
+    await expect.poll(() => usersLink.isVisible()).toBe(false)
+    await screenshot(page, 'shell-users-820')
+
+    await page.getByRole('button', { name: 'Show or hide navigation' }).click()
+    await expect.poll(() => usersLink.isVisible()).toBe(true)
+    await screenshot(page, 'shell-drawer-820')
+    expect(problems).toEqual([])
+    await context.close()
+  })
+
+  it('as staff, hides the admin navigation and refuses the users page', async () => {
+    const { context, page, problems } = await openPage(LAPTOP)
+    const staff = account('staff')
+    await page.goto(`${server.url}/`)
+    await signIn(page, staff.email, staff.password)
+    await page.getByRole('heading', { name: /^Welcome,/ }).waitFor()
+    const nav = page.getByRole('navigation', { name: 'Main' })
+    await expect.poll(() => nav.getByRole('link', { name: 'Overview' }).isVisible()).toBe(true)
+    expect(await nav.getByRole('link', { name: 'Users' }).count()).toBe(0)
+
+    await page.goto(`${server.url}/admin/users`)
+    await page.getByRole('heading', { name: 'Not available for your role' }).waitFor()
+    await screenshot(page, 'shell-not-allowed-staff-1366')
+    expect(problems).toEqual([])
+    await context.close()
+  })
+
+  it('a password reset e-mail shows in the outbox, and its link lets the person choose a new password', async () => {
+    const manager = account('lab_manager')
+    const visitor = await openPage(LAPTOP)
+    await visitor.page.goto(`${server.url}/sign-in`)
+    await visitor.page.getByRole('link', { name: 'Forgot password?' }).click()
+    await visitor.page.getByLabel('E-mail address').fill(manager.email)
+    await visitor.page.getByRole('button', { name: 'Send the link' }).click()
+    await expect.poll(() => visitor.page.getByRole('status').textContent()).toContain(manager.email)
+
+    const adminView = await openPage(LAPTOP)
+    const admin = account('admin')
+    await adminView.page.goto(`${server.url}/admin/outbox`)
+    await signIn(adminView.page, admin.email, admin.password)
+    await adminView.page.getByRole('heading', { name: 'Outbox' }).waitFor()
+    const managerMail = adminView.page.getByTestId('captured-mail-item').filter({ hasText: manager.email }).first()
+    await expect
+      .poll(
+        async () => {
+          if (await managerMail.count()) return true
+          await adminView.page.getByRole('button', { name: 'Refresh' }).click()
+          return false
+        },
+        { timeout: 30_000, interval: 1_000 },
+      )
+      .toBe(true)
+    await managerMail.click()
+    const body = (await adminView.page.locator('article pre').textContent()) ?? ''
+    await screenshot(adminView.page, 'shell-outbox-1366')
+    const link = body.match(/https?:\/\/\S+\/reset-password\?token=[^\s]+/)?.[0]
+    expect(link, body).toBeTruthy()
+
+    await visitor.page.goto(link!)
+    await expect.poll(() => visitor.page.getByRole('main').textContent()).toContain(manager.email)
+    await screenshot(visitor.page, 'shell-reset-password-1366')
+    const newPassword = 'a-fresh-manager-password'
+    await visitor.page.getByLabel('New password', { exact: true }).fill(newPassword)
+    await visitor.page.getByLabel('Repeat the new password').fill(newPassword)
+    await visitor.page.getByRole('button', { name: 'Save new password' }).click()
+    await visitor.page.getByRole('heading', { name: 'Sign in' }).waitFor()
+    await visitor.page.getByLabel('Password', { exact: true }).fill(newPassword)
+    await visitor.page.getByRole('button', { name: 'Sign in' }).click()
+    await visitor.page.getByRole('heading', { name: /^Welcome,/ }).waitFor()
+    await screenshot(visitor.page, 'shell-overview-manager-1366')
+    expect([...visitor.problems, ...adminView.problems]).toEqual([])
+    await visitor.context.close()
+    await adminView.context.close()
+  })
+})
