@@ -4,14 +4,14 @@
 #   pg.sh start [dbname]     init (first time) + start; prints the DATABASE_URL as the last line
 #   pg.sh stop               fast shutdown
 #   pg.sh status
-# Listens on 127.0.0.1 only, port $DW_PG_PORT (default 54329). Data lives in .pg/ (git-ignored).
+# Listens on 127.0.0.1 only, port $DW_PG_PORT (default 54329). Data lives in .pg/ (git-ignored) or $DW_PG_DIR.
 # trust auth and fsync=off are for dev/test only; point DATABASE_URL at a real server for real data.
 set -euo pipefail
 
 ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)"
 PORT="${DW_PG_PORT:-54329}"
 BIN="${PG_BIN:-/usr/lib/postgresql/15/bin}"
-BASE="$ROOT/.pg"
+BASE="${DW_PG_DIR:-$ROOT/.pg}"
 
 say() { echo "[pg] $*" >&2; }
 
@@ -32,11 +32,11 @@ pick_dirs() {
   DATA="$BASE/data"; RUN="$BASE/run"
   mkdir -p "$BASE"
   if ! runuser -u postgres -- test -x "$BASE" 2>/dev/null || ! runuser -u postgres -- test -x "$ROOT" 2>/dev/null; then
-    local h; h=$(echo -n "$ROOT" | sha1sum | cut -c1-10)
+    local h; h=$(echo -n "$BASE" | sha1sum | cut -c1-10)
     BASE="/tmp/dw-pg-$h"; DATA="$BASE/data"; RUN="$BASE/run"
     mkdir -p "$BASE"
   fi
-  if [ ${#RUN} -gt 80 ]; then RUN="/tmp/dw-pg-run-$(echo -n "$ROOT" | sha1sum | cut -c1-10)"; fi
+  if [ ${#RUN} -gt 80 ]; then RUN="/tmp/dw-pg-run-$(echo -n "$BASE" | sha1sum | cut -c1-10)"; fi
   mkdir -p "$RUN"; chown postgres:postgres "$BASE" "$RUN"; chmod 700 "$BASE"
 }
 
