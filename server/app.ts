@@ -10,6 +10,8 @@ import { csrfProtection } from './http/csrf'
 import { errorHandler, notFoundApi } from './http/errors'
 import { loadActor } from './http/session-user'
 import { authRoutes } from './routes/auth.routes'
+import { floorsRoutes } from './routes/floors.routes'
+import { sitesRoutes } from './routes/sites.routes'
 import { systemRoutes } from './routes/system.routes'
 import { usersRoutes } from './routes/users.routes'
 import type { ServiceContext } from './services/context'
@@ -19,6 +21,8 @@ const FEATURES: ((api: ApiRoutes, ctx: ServiceContext) => void)[] = [
   systemRoutes,
   authRoutes,
   usersRoutes,
+  sitesRoutes,
+  floorsRoutes,
 ]
 
 export interface AppOptions {
