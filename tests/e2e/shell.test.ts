@@ -186,4 +186,63 @@ describe('client shell', () => {
     await visitor.context.close()
     await adminView.context.close()
   })
+
+  it('an invited person accepts from the e-mailed link, and the admin can then deactivate them', async () => {
+    const admin = account('admin')
+    const invitee = { email: 'new.chemist@calder-ridge.example', name: 'Noor <b>Amari</b>' }
+    const adminView = await openPage(LAPTOP)
+    await adminView.page.goto(`${server.url}/admin/users`)
+    await signIn(adminView.page, admin.email, admin.password)
+    await adminView.page.getByRole('button', { name: 'Invite a person' }).click()
+    const dialog = adminView.page.getByRole('dialog')
+    await dialog.getByLabel('E-mail address').fill(invitee.email)
+    await dialog.getByLabel('Name').fill(invitee.name)
+    await dialog.getByRole('button', { name: 'Send invitation' }).click()
+    const row = adminView.page.getByTestId('users-table').locator('tr', { hasText: invitee.email })
+    // Markup typed into a name is shown as text, never interpreted.
+    await expect.poll(() => row.textContent()).toContain('Noor <b>Amari</b>')
+    await expect.poll(() => row.textContent()).toContain('Invited')
+
+    await adminView.page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Outbox' }).click()
+    const inviteMail = adminView.page.getByTestId('captured-mail-item').filter({ hasText: invitee.email }).first()
+    await expect
+      .poll(
+        async () => {
+          if (await inviteMail.count()) return true
+          await adminView.page.getByRole('button', { name: 'Refresh' }).click()
+          return false
+        },
+        { timeout: 30_000, interval: 1_000 },
+      )
+      .toBe(true)
+    await inviteMail.click()
+    const body = (await adminView.page.locator('article pre').textContent()) ?? ''
+    const link = body.match(/https?:\/\/\S+\/invite\?token=[^\s]+/)?.[0]
+    expect(link, body).toBeTruthy()
+
+    const inviteeView = await openPage(TABLET)
+    await inviteeView.page.goto(link!)
+    await expect.poll(() => inviteeView.page.getByRole('main').textContent()).toContain(invitee.email)
+    await expect.poll(() => inviteeView.page.getByLabel('Your name').inputValue()).toBe(invitee.name)
+    await screenshot(inviteeView.page, 'shell-accept-invitation-820')
+    await inviteeView.page.getByLabel('Your name').fill('Noor Amari')
+    await inviteeView.page.getByLabel('New password', { exact: true }).fill('chemist-password-1')
+    await inviteeView.page.getByLabel('Repeat the new password').fill('chemist-password-1')
+    await inviteeView.page.getByRole('button', { name: 'Create my account' }).click()
+    await inviteeView.page.getByRole('heading', { name: 'Welcome, Noor' }).waitFor()
+    await screenshot(inviteeView.page, 'shell-overview-staff-820')
+
+    await adminView.page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Users' }).click()
+    const acceptedRow = adminView.page.getByTestId('users-table').locator('tr', { hasText: invitee.email })
+    await expect.poll(() => acceptedRow.textContent()).toContain('Active')
+    await acceptedRow.getByRole('button', { name: /^Manage/ }).click()
+    await adminView.page.getByText('Deactivate…').click()
+    await adminView.page.getByRole('dialog').getByText('Deactivate this account?').waitFor()
+    await screenshot(adminView.page, 'shell-confirm-deactivate-1366')
+    await adminView.page.getByRole('dialog').getByRole('button', { name: 'Deactivate' }).click()
+    await expect.poll(() => acceptedRow.textContent()).toContain('Deactivated')
+    expect([...adminView.problems, ...inviteeView.problems]).toEqual([])
+    await adminView.context.close()
+    await inviteeView.context.close()
+  })
 })
