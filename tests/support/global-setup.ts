@@ -14,7 +14,8 @@ declare module 'vitest' {
 export default async function setup(project: TestProject) {
   const out = execFileSync('bash', ['server/cli/pg.sh', 'start', 'postgres'], { encoding: 'utf8' }).trim().split('\n')
   const adminUrl = out[out.length - 1]!
-  const name = `driftwarden_test_${project.name}`
+  // The pid keeps parallel runs (several developers' terminals) from dropping each other's database.
+  const name = `driftwarden_test_${project.name}_${process.pid}`
   const admin = new pg.Client({ connectionString: adminUrl })
   await admin.connect()
   await admin.query(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`)
@@ -25,4 +26,10 @@ export default async function setup(project: TestProject) {
   await migrateToLatest(db)
   await db.destroy()
   project.provide('databaseUrl', url)
+  return async () => {
+    const c = new pg.Client({ connectionString: adminUrl })
+    await c.connect()
+    await c.query(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`).catch(() => undefined)
+    await c.end()
+  }
 }
