@@ -8,7 +8,7 @@ export const SCREENING_CAUTION = {
   summary:
     'Screening estimate only: real concentrations can be higher in places, and local codes, the authority having jurisdiction and qualified professionals have the final word.',
   points: [
-    'This result comes from a simplified screening model. Real concentrations can be higher in places, for example along a jet, where air mixes poorly, or where a dense gas pools near the floor.',
+    'Driftwarden results come from a simplified screening model. Real concentrations can be higher in places, for example along a jet, where air mixes poorly, or where a dense gas pools near the floor.',
     'It does not replace the site emergency action plan or the judgement of qualified people such as industrial hygienists and licensed engineers.',
     'Local codes and the authority having jurisdiction govern. Exposure limits are revised over time, so verify the current values before you rely on them.',
   ],

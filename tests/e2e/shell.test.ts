@@ -69,6 +69,11 @@ describe('client shell', () => {
     await signIn(page, admin.email, admin.password)
     await page.getByRole('heading', { name: 'Users' }).waitFor()
     expect(new URL(page.url()).pathname).toBe('/admin/users')
+
+    await page.goto(`${server.url}/no/such/page`)
+    await page.getByRole('heading', { name: 'Page not found' }).waitFor()
+    await page.getByRole('link', { name: 'Go to the overview' }).click()
+    await page.getByRole('heading', { name: /^Welcome,/ }).waitFor()
     expect(problems).toEqual([])
     await context.close()
   })
@@ -86,6 +91,11 @@ describe('client shell', () => {
     await expect.poll(() => nav.getByRole('link', { name: 'Users' }).isVisible()).toBe(true)
     await expect.poll(() => nav.getByRole('link', { name: 'Outbox' }).isVisible()).toBe(true)
     await screenshot(page, 'shell-overview-admin-1366')
+    const caution = page.getByRole('region', { name: 'Screening estimate, not a safety determination' })
+    await caution.getByRole('button', { name: 'Read the full caution' }).click()
+    await expect.poll(() => caution.textContent()).toContain('authority having jurisdiction govern')
+    await caution.scrollIntoViewIfNeeded()
+    await screenshot(page, 'shell-caution-expanded-1366')
 
     await nav.getByRole('link', { name: 'Users' }).click()
     await page.getByRole('heading', { name: 'Users' }).waitFor()
