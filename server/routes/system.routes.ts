@@ -1,7 +1,7 @@
 import { sql } from 'kysely'
 import { z } from 'zod'
 import { API } from '../../shared/api-paths'
-import { CapturedMailList, OutgoingMail } from '../../shared/schemas/mail'
+import { CapturedMailList, OutgoingMailList } from '../../shared/schemas/mail'
 import type { ApiRoutes } from '../http/define-route'
 import { buildOpenApi } from '../http/openapi'
 import type { ServiceContext } from '../services/context'
@@ -25,6 +25,6 @@ export function systemRoutes(api: ApiRoutes, ctx: ServiceContext) {
   api.add({ method: 'get', path: API.capturedMail, summary: 'Mail received by the local fake SMTP server (demo/dev only)', tag: 'admin', access: ['admin'], response: CapturedMailList },
     async ({ actor }) => ({ enabled: ctx.mail.fakeSmtpEnabled, messages: ctx.mail.fakeSmtpEnabled ? await ctx.mail.captured(actor.orgId) : [] }))
 
-  api.add({ method: 'get', path: API.outgoingMail, summary: 'Delivery state of outgoing mail', tag: 'admin', access: ['admin'], response: z.object({ messages: z.array(OutgoingMail) }) },
+  api.add({ method: 'get', path: API.outgoingMail, summary: 'Delivery state of outgoing mail', tag: 'admin', access: ['admin'], response: OutgoingMailList },
     async ({ actor }) => ({ messages: await ctx.mail.outgoing(actor.orgId) }))
 }

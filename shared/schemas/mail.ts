@@ -25,3 +25,4 @@ export const OutgoingMail = z.object({
   sentAt: z.string().nullable(),
 })
 export type OutgoingMail = z.infer<typeof OutgoingMail>
+export const OutgoingMailList = z.object({ messages: z.array(OutgoingMail) })

@@ -58,6 +58,7 @@ describe('POST /api/auth/login', () => {
     for (let i = 0; i < 4; i++) await a.post('/api/auth/login').send({ email, password: `guess-${i}` }).expect(401)
     const res = await a.post('/api/auth/login').send({ email, password: 'guess-last' }).expect(429)
     expect(res.body.error.code).toBe('rate_limited')
+    expect(Number(res.headers['retry-after'])).toBeGreaterThan(0)
   })
 })
 
