@@ -11,7 +11,7 @@ const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..')
 /** Starts the project-local PostgreSQL cluster and returns its URL (the script prints it last). */
 function localDatabase(): string {
   try {
-    const out = execFileSync('bash', [path.join(root, 'server/cli/pg.sh'), 'start', 'driftwarden'], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'inherit'] })
+    const out = execFileSync('bash', [path.join(root, 'server/cli/pg.sh'), 'start', process.env.DW_DB_NAME || 'driftwarden'], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'inherit'] })
     return out.trim().split('\n').pop()!
   } catch {
     console.error('Could not start the local PostgreSQL cluster (see the message above). Set DATABASE_URL to use an existing server.')
