@@ -11,6 +11,8 @@ import { errorHandler, notFoundApi } from './http/errors'
 import { loadActor } from './http/session-user'
 import { authRoutes } from './routes/auth.routes'
 import { floorsRoutes } from './routes/floors.routes'
+import { runsRoutes } from './routes/runs.routes'
+import { scenariosRoutes } from './routes/scenarios.routes'
 import { sitesRoutes } from './routes/sites.routes'
 import { systemRoutes } from './routes/system.routes'
 import { usersRoutes } from './routes/users.routes'
@@ -23,6 +25,8 @@ const FEATURES: ((api: ApiRoutes, ctx: ServiceContext) => void)[] = [
   usersRoutes,
   sitesRoutes,
   floorsRoutes,
+  scenariosRoutes,
+  runsRoutes,
 ]
 
 export interface AppOptions {

@@ -1,7 +1,15 @@
+import { startRunWorkers } from './jobs/runs-worker'
 import type { Runtime } from './runtime'
 
 /** Background services that run beside HTTP in the server process (job workers, schedulers). */
 export const BACKGROUND: ((rt: Runtime) => Promise<void>)[] = []
+
+// Engine runs (issue 5): config.inProcessWorkers threads in this process; 0 leaves the queue to `npm run worker`.
+BACKGROUND.push(async (rt) => {
+  if (rt.ctx.config.inProcessWorkers <= 0) return
+  const workers = await startRunWorkers(rt.ctx.db, rt.ctx.jobs, { concurrency: rt.ctx.config.inProcessWorkers, name: 'in-process' })
+  rt.onClose(() => workers.stop())
+})
 
 export async function startBackground(rt: Runtime) {
   for (const start of BACKGROUND) await start(rt)

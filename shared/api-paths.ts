@@ -16,6 +16,19 @@ export const API = {
   user: (id: number) => `/api/users/${id}`,
   capturedMail: '/api/admin/captured-mail',
   outgoingMail: '/api/admin/outgoing-mail',
+  floorScenarios: (floorId: number) => `/api/floors/${floorId}/scenarios`,
+  scenario: (id: number) => `/api/scenarios/${id}`,
+  scenarioRuns: (id: number) => `/api/scenarios/${id}/runs`,
+  runs: '/api/runs',
+  floorRuns: (floorId: number) => `/api/floors/${floorId}/runs`,
+  run: (id: number) => `/api/runs/${id}`,
+  runFields: (id: number) => `/api/runs/${id}/fields`,
+  runSeries: (id: number) => `/api/runs/${id}/series`,
+  runCancel: (id: number) => `/api/runs/${id}/cancel`,
+  floorSweeps: (floorId: number) => `/api/floors/${floorId}/sweeps`,
+  sweep: (id: number) => `/api/sweeps/${id}`,
+  floorAdvisor: (floorId: number) => `/api/floors/${floorId}/advisor`,
+  floorAdvisorAccept: (floorId: number) => `/api/floors/${floorId}/advisor/accept`,
 } as const
 
 /** Header carrying the CSRF token on every state-changing request (double-submit, matched to a cookie). */

@@ -2,9 +2,11 @@ import type {
   AppSecretsTable, AuditLogTable, AuthTokensTable, CapturedMailTable, OrganizationsTable, OutgoingMailTable, UsersTable,
 } from './tables/foundation'
 import type { FloorTables } from './tables/floors'
+import type { RunTables } from './tables/runs'
+import type { PlanTables } from './tables/plans'
 
 /** The whole database as Kysely sees it; each feature's tables live in ./tables. */
-export interface Database extends FloorTables {
+export interface Database extends FloorTables, RunTables, PlanTables {
   organizations: OrganizationsTable
   users: UsersTable
   auth_tokens: AuthTokensTable

@@ -4,6 +4,7 @@ import { findOrgByName, insertOrg } from '../repositories/orgs.repo'
 import { findUserByEmail, insertUser } from '../repositories/users.repo'
 import { hashPassword } from '../services/passwords'
 import { DEMO_ACCOUNTS, DEMO_ORG_NAME } from './demo-accounts'
+import { seedDemoScenario } from '../jobs/demo-scenario'
 
 export interface DemoSeed {
   orgId: number
@@ -27,3 +28,6 @@ export async function seedDemo(db: Db, config: Config): Promise<DemoSeed> {
 
 /** Features add their own idempotent demo data (sites, floors, scenarios) here. */
 export const DEMO_STEPS: ((db: Db, seed: DemoSeed) => Promise<void>)[] = []
+
+// Runs and results (issue 5): the demo scenario on the demo floor (not run at seed time).
+DEMO_STEPS.push(async (db, seed) => { await seedDemoScenario(db, seed) })

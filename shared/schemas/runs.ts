@@ -121,3 +121,134 @@ export const Run = z.object({
   summary: RunSummary.nullable(),
 })
 export type Run = z.infer<typeof Run>
+
+// ---------------------------------------------------------------------------------------------------------------
+// Additions for scenarios, stored fields, sweeps and the detector advisor (all new shapes; the ones above are fixed).
+
+/** A saved scenario as the API returns it. */
+export const ScenarioRecord = z.object({
+  id: z.number().int(),
+  floorId: z.number().int(),
+  name: z.string(),
+  config: ScenarioConfig,
+  createdAt: z.string(),
+  updatedAt: z.string(),
+  lastRun: z.object({ id: z.number().int(), status: RunStatus, progress: z.number(), createdAt: z.string() }).nullable(),
+})
+export type ScenarioRecord = z.infer<typeof ScenarioRecord>
+export const ScenarioList = z.object({ scenarios: z.array(ScenarioRecord) })
+
+/** A run in a list (no summary). */
+export const RunListItem = Run.omit({ summary: true }).extend({
+  gasId: z.string().nullable().optional(),
+  ventilationState: VentilationState.optional(),
+})
+export type RunListItem = z.infer<typeof RunListItem>
+export const RunList = z.object({ runs: z.array(RunListItem) })
+
+/**
+ * Layout of the binary fields of a run (GET /api/runs/:id/fields, application/octet-stream): little-endian
+ * Float32 planes of nx·ny values (index i + nx·j, cell centre at origin + (i + ½, j + ½)·cell). NaN = not air.
+ * The body is: `frames` planes of breathing-height ppm (one per time), then one front plane per limit
+ * (first time, s, the place reaches the limit; +Infinity = never within the run), then one peak-ppm plane.
+ */
+export const RunFieldsMeta = z.object({
+  nx: z.number().int(),
+  ny: z.number().int(),
+  cellM: z.number(),
+  originM: z.tuple([z.number(), z.number()]),
+  breathingHeightM: z.number(),
+  timesS: z.array(z.number()),
+  /** Same order as the front planes. */
+  limits: z.array(LimitLine),
+  roomIds: z.array(z.string()),
+})
+export type RunFieldsMeta = z.infer<typeof RunFieldsMeta>
+
+/** Time series at each detector and workstation (ppm at each output time). */
+export const RunSeries = z.object({ timesS: z.array(z.number()), series: z.record(z.string(), z.array(z.number())) })
+export type RunSeries = z.infer<typeof RunSeries>
+
+export const RunDetail = Run.extend({
+  meta: RunFieldsMeta.nullable(),
+  config: ScenarioConfig,
+  floorVersion: z.number().int(),
+  attempts: z.number().int(),
+  canRun: z.boolean(),
+})
+export type RunDetail = z.infer<typeof RunDetail>
+
+export const SweepInput = z.object({
+  /** The leak and conditions; sourceIds here are the sources swept, each run alone. */
+  config: ScenarioConfig,
+})
+export type SweepInput = z.infer<typeof SweepInput>
+
+/** Per workstation: the worst source (earliest crossing of each limit, highest peak) over a sweep. */
+export const SweepWorstCase = z.object({
+  workstationId: z.string(),
+  name: z.string(),
+  peakPpm: z.number(),
+  peakSourceId: z.string().nullable(),
+  firstExceed: z.record(z.string(), z.object({ timeS: z.number().nullable(), sourceId: z.string().nullable() })),
+})
+export type SweepWorstCase = z.infer<typeof SweepWorstCase>
+
+export const SweepDetail = z.object({
+  id: z.number().int(),
+  floorId: z.number().int(),
+  label: z.string(),
+  createdAt: z.string(),
+  runs: z.array(RunListItem.extend({ sourceId: z.string() })),
+  limits: z.array(LimitLine),
+  worstCase: z.array(SweepWorstCase),
+  complete: z.boolean(),
+})
+export type SweepDetail = z.infer<typeof SweepDetail>
+
+const Point = z.tuple([z.number().min(-1e4).max(1e4), z.number().min(-1e4).max(1e4)])
+
+export const AdvisorRequest = z.object({
+  /** Finished runs (leak scenarios) of this floor to cover. */
+  runIds: z.array(z.number().int().positive()).min(1, 'Pick at least one run').max(50),
+  /** Candidate mounting points picked on the plan; or give gridSpacingM for a grid over the rooms. */
+  candidates: z.array(Point).max(2000).default([]),
+  gridSpacingM: z.number().min(0.25, 'At least 0.25 m').max(20).optional(),
+  count: z.number().int().min(1, 'At least 1').max(20, 'At most 20'),
+  /** Limit key (of the runs' limits) used as the alarm set point; default: the gas's default alarm 1. */
+  limitKey: z.string().optional(),
+  /** Coverage deadline: a scenario counts as covered when some detector alarms within this time. */
+  deadlineS: z.number().positive().max(86400).default(120),
+})
+export type AdvisorRequest = z.infer<typeof AdvisorRequest>
+
+export const AdvisorProposal = z.object({
+  method: z.enum(['exhaustive', 'greedy']),
+  guarantee: z.string(),
+  limit: LimitLine,
+  setPointBasis: z.string(),
+  deadlineS: z.number(),
+  mountingHeightM: z.number(),
+  mountingBasis: z.string(),
+  chosen: z.array(z.object({ position: Point, roomId: z.string().nullable(), roomName: z.string().nullable() })),
+  /** Worst case over the scenarios of the time to first alarm (s); null = some scenario never alarms. */
+  worstTimeS: z.number().nullable(),
+  coverage: z.number(),
+  perRun: z.array(z.object({ runId: z.number().int(), label: z.string(), timeS: z.number().nullable(), byIndex: z.number().int().nullable() })),
+  /** Coverage-maximising greedy choice for the same count (the (1 − 1/e) bound applies to it). */
+  coverageChoice: z.object({ positions: z.array(Point), covered: z.number() }),
+  candidatesEvaluated: z.number().int(),
+  notes: z.array(z.string()),
+})
+export type AdvisorProposal = z.infer<typeof AdvisorProposal>
+
+export const AdvisorAccept = z.object({
+  /** The floor version the officer saw; a newer save answers 409. */
+  version: z.number().int().positive(),
+  gasId: z.string().min(1),
+  positions: z.array(Point).min(1).max(20),
+  mountingHeightM: z.number().min(0).max(20),
+  alarmLowPpm: z.number().positive().max(1e6),
+  alarmHighPpm: z.number().positive().max(1e6),
+})
+export type AdvisorAccept = z.infer<typeof AdvisorAccept>

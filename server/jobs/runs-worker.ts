@@ -1,0 +1,154 @@
+import { randomUUID } from 'node:crypto'
+import { hostname } from 'node:os'
+import type PgBoss from 'pg-boss'
+import { Plan } from '../../shared/floorplan/plan-schema'
+import { buildRunScenario } from '../../shared/runs/build-scenario'
+import { summarizeRun } from '../../shared/runs/summarize'
+import { ScenarioConfig } from '../../shared/schemas/runs'
+import type { Db } from '../db/database'
+import { findFloorInOrg } from '../repositories/floors.repo'
+import {
+  claimRun, findRunById, findStaleRuns, finishRun, hasResult, heartbeatRun, insertResultOnce, lockHeldRun, releaseLostRun, replaceRunJob, setRunJob,
+} from '../repositories/runs.repo'
+import { EngineRunError, runEngineInThread } from './engine-thread-runner'
+import type { JobQueue } from './queue'
+
+/** The pg-boss queue of engine runs. Job data: { runId }. */
+export const RUNS_QUEUE = 'engine-runs'
+/** Attempts of one run before it is failed for good (first try + retries). */
+export const MAX_ATTEMPTS = 4
+
+export async function ensureRunsQueue(jobs: JobQueue) {
+  // Dead workers are noticed by the heartbeat reaper within seconds; pg-boss's own expiry is only the last resort.
+  await jobs.ensureQueue(RUNS_QUEUE, { retryLimit: MAX_ATTEMPTS - 1, retryDelay: 1, retryBackoff: false, expireInSeconds: 6 * 3600 })
+}
+
+export async function enqueueRun(db: Db, jobs: JobQueue, runId: number): Promise<string> {
+  await ensureRunsQueue(jobs)
+  const jobId = await jobs.boss.send(RUNS_QUEUE, { runId }, { retryLimit: MAX_ATTEMPTS - 1, retryDelay: 1, expireInSeconds: 6 * 3600 })
+  if (!jobId) throw new Error('the job queue refused the run')
+  await setRunJob(db, runId, jobId)
+  return jobId
+}
+
+export interface RunWorkerOptions {
+  /** Parallel runs in this process (each in its own thread). */
+  concurrency: number
+  /** Heartbeat and progress write interval, ms. @default 500 */
+  heartbeatMs?: number
+  /** A running run whose holder has not beaten for this long is handed to another worker, s. @default env RUN_STALE_S or 20 */
+  staleAfterS?: number
+  /** Name in logs. */
+  name?: string
+}
+
+export interface RunWorkers {
+  /** Stops taking jobs, cancels nothing: in-flight runs finish (or are retried elsewhere after a timeout). */
+  stop(): Promise<void>
+  readonly holderPrefix: string
+}
+
+/** Works the runs queue: claims the run, runs the engine in a thread, stores the result once. */
+export async function startRunWorkers(db: Db, jobs: JobQueue, opts: RunWorkerOptions): Promise<RunWorkers> {
+  await ensureRunsQueue(jobs)
+  const heartbeatMs = opts.heartbeatMs ?? 500
+  const staleAfterS = opts.staleAfterS ?? Number(process.env.RUN_STALE_S ?? 20)
+  const holderPrefix = `${hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`
+  const log = (msg: string) => { if (process.env.RUN_WORKER_LOG !== '0') console.log(`[runs ${opts.name ?? holderPrefix}] ${msg}`) }
+  const active = new Set<Promise<unknown>>()
+  let stopping = false
+
+  const handle = async (job: PgBoss.Job<{ runId: number }>) => {
+    const runId = job.data.runId
+    const holder = `${holderPrefix}:${randomUUID().slice(0, 8)}`
+    const run = await claimRun(db, runId, holder, job.id)
+    if (!run) return { skipped: 'not claimable (finished, cancelled or held by a live worker)' }
+    log(`run ${runId} attempt ${run.attempts}`)
+    if (run.cancel_requested) { await finishRun(db, runId, holder, 'cancelled', 'Cancelled'); return { cancelled: true } }
+    // A previous attempt stored the result and died before marking the run: finish it without running again.
+    if (await hasResult(db, runId)) { await finishRun(db, runId, holder, 'succeeded', null); return { stored: 'earlier' } }
+
+    const floor = await findFloorInOrg(db, run.org_id, run.floor_id)
+    const fail = async (message: string) => { await finishRun(db, runId, holder, 'failed', message); return { failed: message } }
+    if (!floor) return fail('The floor no longer exists')
+    const plan = Plan.safeParse(floor.plan)
+    const config = ScenarioConfig.safeParse(run.config)
+    if (!plan.success || !config.success) return fail('The stored plan or scenario is not valid any more')
+    const built = buildRunScenario(plan.data, floor.ceiling_height_m, config.data, run.label)
+    if (!built.ok) return fail(`The scenario cannot run on the current plan: ${Object.entries(built.fields).map(([k, v]) => `${k}: ${v}`).join('; ')}`)
+
+    let progress = 0
+    const engine = runEngineInThread(built.scenario, (f) => { progress = f })
+    let lost = false
+    const beat = setInterval(() => {
+      heartbeatRun(db, runId, holder, Math.min(progress, 0.99)).then((r) => {
+        if (!r) { lost = true; engine.cancel() } else if (r.cancel_requested) engine.cancel()
+      }).catch((e) => log(`heartbeat failed: ${(e as Error).message}`))
+    }, heartbeatMs)
+    try {
+      const result = await engine.result
+      clearInterval(beat)
+      const stored = summarizeRun(result, plan.data, config.data, built.scenario, built.notes)
+      const buf = (a: Float32Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength)
+      await db.transaction().execute(async (trx) => {
+        // Only the holder may store and finish; the primary key on run_id makes the insert happen once.
+        const still = await lockHeldRun(trx, runId, holder)
+        if (!still) return
+        await insertResultOnce(trx, { runId, summary: stored.summary, meta: stored.meta, series: stored.series, frames: buf(stored.frames), fronts: buf(stored.fronts), peak: buf(stored.peak) })
+        await finishRun(trx, runId, holder, 'succeeded', null)
+      })
+      log(`run ${runId} stored (${(result.stats.wall_s).toFixed(1)} s engine)`)
+      return { ok: true }
+    } catch (e) {
+      clearInterval(beat)
+      if (e instanceof EngineRunError && e.kind === 'cancelled') {
+        if (lost) return { lost: true }
+        await finishRun(db, runId, holder, 'cancelled', 'Cancelled while running')
+        return { cancelled: true }
+      }
+      if (e instanceof EngineRunError && e.kind === 'scenario') return fail(`The engine refused the scenario: ${e.message}`)
+      if (e instanceof EngineRunError) return fail(`The engine stopped: ${e.message}`)
+      // Database trouble and the like: let pg-boss retry; give the run back first.
+      await releaseLostRun(db, runId, holder, false).catch(() => undefined)
+      throw e
+    }
+  }
+
+  const workerIds: string[] = []
+  for (let i = 0; i < Math.max(0, opts.concurrency); i++) {
+    workerIds.push(await jobs.boss.work<{ runId: number }>(RUNS_QUEUE, { batchSize: 1, pollingIntervalSeconds: 0.5 }, async ([job]) => {
+      const p = handle(job!)
+      active.add(p)
+      try { return await p } finally { active.delete(p) }
+    }))
+  }
+
+  // The reaper: a holder that stopped beating (process killed, machine lost) gives its run back to the queue.
+  const reap = async () => {
+    for (const r of await findStaleRuns(db, staleAfterS)) {
+      const giveUp = r.attempts >= MAX_ATTEMPTS
+      const released = await releaseLostRun(db, r.id, r.holder!, giveUp)
+      if (!released.numUpdatedRows) continue
+      log(`run ${r.id}: holder ${r.holder} lost${giveUp ? '; giving up' : '; re-queued'}`)
+      if (r.job_id) await jobs.boss.fail(RUNS_QUEUE, r.job_id, { message: 'worker lost' }).catch(() => undefined)
+      if (!giveUp) {
+        const fresh = await findRunById(db, r.id)
+        if (fresh?.status === 'running' && fresh.holder === null) {
+          const jobId = await jobs.boss.send(RUNS_QUEUE, { runId: r.id }, { retryLimit: MAX_ATTEMPTS - 1, retryDelay: 1, expireInSeconds: 6 * 3600 })
+          if (jobId) await replaceRunJob(db, r.id, jobId)
+        }
+      }
+    }
+  }
+  const reaper = setInterval(() => { if (!stopping) reap().catch((e) => log(`reaper: ${(e as Error).message}`)) }, Math.max(1000, (staleAfterS * 1000) / 3))
+
+  return {
+    holderPrefix,
+    stop: async () => {
+      stopping = true
+      clearInterval(reaper)
+      for (const id of workerIds) await jobs.boss.offWork(id).catch(() => undefined)
+      await Promise.allSettled([...active])
+    },
+  }
+}

@@ -1,0 +1,37 @@
+import { SavePlanResult } from '../../shared/schemas/floors'
+import { IdParam } from '../../shared/schemas/common'
+import { AdvisorAccept, AdvisorProposal, AdvisorRequest, RunDetail, RunList, RunSeries, SweepDetail, SweepInput } from '../../shared/schemas/runs'
+import type { ApiRoutes } from '../http/define-route'
+import * as advisor from '../services/advisor.service'
+import type { ServiceContext } from '../services/context'
+import * as runs from '../services/runs.service'
+import * as sweeps from '../services/sweeps.service'
+
+const OFFICERS = ['admin', 'ehs_officer'] as const
+
+export function runsRoutes(api: ApiRoutes, ctx: ServiceContext) {
+  api.add({ method: 'get', path: '/api/runs', summary: 'Recent runs on the floors you can see', tag: 'runs', access: 'signed-in', response: RunList },
+    ({ actor }) => runs.listVisibleRuns(ctx, actor))
+  api.add({ method: 'get', path: '/api/floors/:id/runs', summary: 'Runs of a floor', tag: 'runs', access: 'signed-in', params: IdParam, response: RunList },
+    ({ actor, params }) => runs.listFloorRuns(ctx, actor, params.id))
+  api.add({ method: 'get', path: '/api/runs/:id', summary: 'A run: status, progress, and when finished its summary and field layout', tag: 'runs', access: 'signed-in', params: IdParam, response: RunDetail },
+    ({ actor, params }) => runs.getRun(ctx, actor, params.id))
+  api.add({ method: 'get', path: '/api/runs/:id/series', summary: 'Time series at each detector and workstation', tag: 'runs', access: 'signed-in', params: IdParam, response: RunSeries },
+    ({ actor, params }) => runs.getRunSeries(ctx, actor, params.id))
+  api.add({ method: 'get', path: '/api/runs/:id/fields', summary: 'Float32 planes: snapshots, fronts, peak (layout in RunFieldsMeta)', tag: 'runs', access: 'signed-in', params: IdParam, responseContentType: 'application/octet-stream' },
+    ({ actor, params, res }) => runs.sendRunFields(ctx, actor, params.id, res))
+  api.add({ method: 'post', path: '/api/runs/:id/cancel', summary: 'Cancel a queued or running run', tag: 'runs', access: OFFICERS, params: IdParam, response: RunDetail },
+    ({ actor, params }) => runs.cancelRun(ctx, actor, params.id))
+
+  api.add({ method: 'post', path: '/api/floors/:id/sweeps', summary: 'Sweep: the same leak at each of several sources, one run each', tag: 'sweeps', access: OFFICERS, params: IdParam, body: SweepInput, response: SweepDetail, status: 202 },
+    ({ actor, params, body }) => sweeps.startSweep(ctx, actor, params.id, body))
+  api.add({ method: 'get', path: '/api/floors/:id/sweeps', summary: 'Sweeps of a floor', tag: 'sweeps', access: 'signed-in', params: IdParam },
+    ({ actor, params }) => sweeps.listSweeps(ctx, actor, params.id))
+  api.add({ method: 'get', path: '/api/sweeps/:id', summary: 'A sweep with the worst case per workstation', tag: 'sweeps', access: 'signed-in', params: IdParam, response: SweepDetail },
+    ({ actor, params }) => sweeps.getSweep(ctx, actor, params.id))
+
+  api.add({ method: 'post', path: '/api/floors/:id/advisor', summary: 'Propose detector positions from finished runs', tag: 'advisor', access: OFFICERS, params: IdParam, body: AdvisorRequest, response: AdvisorProposal },
+    ({ actor, params, body }) => advisor.propose(ctx, actor, params.id, body))
+  api.add({ method: 'post', path: '/api/floors/:id/advisor/accept', summary: 'Add proposed detectors to the plan (409 stale_version)', tag: 'advisor', access: OFFICERS, params: IdParam, body: AdvisorAccept, response: SavePlanResult },
+    ({ actor, params, body }) => advisor.acceptProposal(ctx, actor, params.id, body))
+}
