@@ -1,0 +1,160 @@
+import { centroid } from '../../../shared/floorplan/plan-edit'
+import type { Plan, RoomKind } from '../../../shared/floorplan/plan-schema'
+import type { SnapGuide } from '../../../shared/floorplan/snapping'
+import type { Draft, Hit } from './use-canvas-tools'
+import type { Viewport } from './use-viewport'
+
+/**
+ * Plan → Konva shape configs in screen pixels. Pure mapping, no interaction: the canvas components only
+ * spread these into <v-line>, <v-circle>, <v-text>…
+ */
+
+export const EDITOR_COLOURS = {
+  wall: '#14375e',
+  selected: '#2a7fa8',
+  hover: '#0b6e69',
+  error: '#a8201a',
+  warning: '#b7791f',
+  guide: '#e0457b',
+  source: '#a8201a',
+  detector: '#1f5f8b',
+  exhaust: '#0b6e69',
+  workstation: '#1b6e3c',
+  label: '#0c1f33',
+  doorOpen: '#0b6e69',
+  doorClosed: '#14375e',
+}
+
+const ROOM_FILL: Record<RoomKind, string> = {
+  gas_room: '#e9e4f5',
+  lab: '#e3f1ee',
+  corridor: '#eef1f4',
+  cleanroom_bay: '#e1eefa',
+  other: '#f1f0ea',
+}
+
+export interface ShapeContext {
+  plan: Plan
+  vp: Viewport
+  selected: ReadonlySet<string>
+  hover: Hit | null
+  problems: ReadonlyMap<string, 'error' | 'warning'>
+}
+
+function strokeFor(ctx: ShapeContext, id: string, base: string): { stroke: string; strokeWidth: number; dash?: number[] } {
+  if (ctx.selected.has(id)) return { stroke: EDITOR_COLOURS.selected, strokeWidth: 3 }
+  const problem = ctx.problems.get(id)
+  if (problem === 'error') return { stroke: EDITOR_COLOURS.error, strokeWidth: 2.5, dash: [8, 4] }
+  if (ctx.hover?.kind === 'element' && ctx.hover.id === id) return { stroke: EDITOR_COLOURS.hover, strokeWidth: 3 }
+  if (problem === 'warning') return { stroke: EDITOR_COLOURS.warning, strokeWidth: 2.5, dash: [6, 4] }
+  return { stroke: base, strokeWidth: 2 }
+}
+
+export function roomShapes(ctx: ShapeContext) {
+  return ctx.plan.rooms.map((room) => {
+    const points = room.polygon.flatMap((p) => ctx.vp.toScreen(p))
+    const [cx, cy] = ctx.vp.toScreen(centroid(room.polygon))
+    return {
+      id: room.id,
+      outline: { points, closed: true, fill: ROOM_FILL[room.kind], lineJoin: 'miter' as const, ...strokeFor(ctx, room.id, EDITOR_COLOURS.wall) },
+      label: { x: cx - 90, y: cy - 9, width: 180, align: 'center', text: room.name, fontSize: 14, fontStyle: 'bold',
+        fontFamily: 'Atkinson Hyperlegible, sans-serif', fill: EDITOR_COLOURS.label, listening: false },
+    }
+  })
+}
+
+export function openingShapes(ctx: ShapeContext) {
+  return ctx.plan.openings.map((o) => {
+    const [a, b] = [ctx.vp.toScreen(o.segment[0]), ctx.vp.toScreen(o.segment[1])]
+    const s = strokeFor(ctx, o.id, o.open ? EDITOR_COLOURS.doorOpen : EDITOR_COLOURS.doorClosed)
+    const highlighted = s.stroke !== (o.open ? EDITOR_COLOURS.doorOpen : EDITOR_COLOURS.doorClosed)
+    const len = Math.hypot(b[0] - a[0], b[1] - a[1]) || 1
+    const nx = (-(b[1] - a[1]) / len) * 6, ny = ((b[0] - a[0]) / len) * 6
+    return {
+      id: o.id,
+      // The gap in the wall, then the opening itself: solid when open, with end ticks when closed.
+      gap: { points: [...a, ...b], stroke: '#ffffff', strokeWidth: 7 },
+      body: { points: [...a, ...b], stroke: s.stroke, strokeWidth: highlighted ? 6 : 5, dash: o.kind === 'pass_through' ? [6, 4] : s.dash,
+        opacity: o.open ? 1 : 0.85, lineCap: 'butt' as const },
+      ticks: o.open ? [] : [a, b].map(([x, y]) => ({ points: [x - nx, y - ny, x + nx, y + ny], stroke: s.stroke, strokeWidth: 2 })),
+    }
+  })
+}
+
+export type ItemGlyph = 'source' | 'detector' | 'exhaust' | 'workstation'
+
+export function itemShapes(ctx: ShapeContext) {
+  const items: { id: string; glyph: ItemGlyph; x: number; y: number; label: string; ring: ReturnType<typeof strokeFor> }[] = []
+  const add = (glyph: ItemGlyph, list: { id: string; position: readonly [number, number] }[], label: (i: number) => string) =>
+    list.forEach((e, i) => {
+      const [x, y] = ctx.vp.toScreen(e.position)
+      items.push({ id: e.id, glyph, x, y, label: label(i), ring: strokeFor(ctx, e.id, '#ffffff') })
+    })
+  add('exhaust', ctx.plan.exhausts, () => 'X')
+  add('workstation', ctx.plan.workstations, () => 'W')
+  add('detector', ctx.plan.detectors, (i) => ctx.plan.detectors[i]!.gasId)
+  add('source', ctx.plan.sources, (i) => ctx.plan.sources[i]!.gasId)
+  return items
+}
+
+export function handleShapes(ctx: ShapeContext) {
+  const out: { key: string; x: number; y: number; active: boolean }[] = []
+  for (const room of ctx.plan.rooms) {
+    if (!ctx.selected.has(room.id)) continue
+    room.polygon.forEach((p, i) => {
+      const [x, y] = ctx.vp.toScreen(p)
+      const active = ctx.hover?.kind === 'vertex' && ctx.hover.roomId === room.id && ctx.hover.index === i
+      out.push({ key: `${room.id}:${i}`, x, y, active })
+    })
+  }
+  return out
+}
+
+export function guideShapes(guides: readonly SnapGuide[], vp: Viewport) {
+  const { width, height } = vp.view
+  return guides.map((g, i) => {
+    const base = { key: `${g.kind}-${i}`, stroke: EDITOR_COLOURS.guide, strokeWidth: 1.5, listening: false }
+    switch (g.kind) {
+      case 'vertex': {
+        const [x, y] = vp.toScreen(g.at)
+        return { ...base, kind: 'ring' as const, x, y }
+      }
+      case 'edge':
+        return { ...base, kind: 'line' as const, points: [...vp.toScreen(g.from), ...vp.toScreen(g.to)], strokeWidth: 4, opacity: 0.6 }
+      case 'align-x': {
+        const [x] = vp.toScreen([g.x, 0])
+        return { ...base, kind: 'line' as const, points: [x, 0, x, height], dash: [4, 4] }
+      }
+      case 'align-y': {
+        const [, y] = vp.toScreen([0, g.y])
+        return { ...base, kind: 'line' as const, points: [0, y, width, y], dash: [4, 4] }
+      }
+      case 'grid': {
+        const [x, y] = vp.toScreen(g.at)
+        return { ...base, kind: 'cross' as const, x, y, stroke: '#5b7a99' }
+      }
+    }
+  })
+}
+
+export function draftShapes(draft: Draft | null, cursor: readonly [number, number] | null, vp: Viewport) {
+  if (!draft) return []
+  const style = { stroke: EDITOR_COLOURS.selected, strokeWidth: 2, dash: [6, 4], listening: false }
+  switch (draft.kind) {
+    case 'rect': {
+      const [ax, ay] = vp.toScreen(draft.a), [bx, by] = vp.toScreen(draft.b)
+      return [{ ...style, points: [ax, ay, bx, ay, bx, by, ax, by], closed: true, fill: 'rgba(42,127,168,0.12)' }]
+    }
+    case 'polygon': {
+      const pts = [...draft.points, ...(cursor ? [cursor] : [])].flatMap((p) => vp.toScreen(p))
+      return [{ ...style, points: pts, closed: false, fill: undefined }]
+    }
+    case 'opening':
+      return [{ ...style, points: draft.segment.flatMap((p) => vp.toScreen(p)), strokeWidth: 6, dash: undefined, stroke: EDITOR_COLOURS.hover, opacity: 0.7 }]
+    case 'calibrate': {
+      const b = draft.b ?? cursor
+      if (!b) return []
+      return [{ ...style, points: [...vp.toScreen(draft.a), ...vp.toScreen(b)], stroke: EDITOR_COLOURS.guide, dash: [2, 3], strokeWidth: 2.5 }]
+    }
+  }
+}
