@@ -1,4 +1,3 @@
-import { centroid } from '../../../shared/floorplan/plan-edit'
 import type { Plan, RoomKind } from '../../../shared/floorplan/plan-schema'
 import type { SnapGuide } from '../../../shared/floorplan/snapping'
 import type { Draft, Hit } from './use-canvas-tools'
@@ -53,11 +52,14 @@ function strokeFor(ctx: ShapeContext, id: string, base: string): { stroke: strin
 export function roomShapes(ctx: ShapeContext) {
   return ctx.plan.rooms.map((room) => {
     const points = room.polygon.flatMap((p) => ctx.vp.toScreen(p))
-    const [cx, cy] = ctx.vp.toScreen(centroid(room.polygon))
+    // Labels sit in the room's north-west corner, where placed items rarely are.
+    const xs = room.polygon.map((p) => p[0]), ys = room.polygon.map((p) => p[1])
+    const [lx, ly] = ctx.vp.toScreen([Math.min(...xs), Math.max(...ys)])
+    const widthPx = (Math.max(...xs) - Math.min(...xs)) * ctx.vp.view.scale
     return {
       id: room.id,
       outline: { points, closed: true, fill: ROOM_FILL[room.kind], lineJoin: 'miter' as const, ...strokeFor(ctx, room.id, EDITOR_COLOURS.wall) },
-      label: { x: cx - 90, y: cy - 9, width: 180, align: 'center', text: room.name, fontSize: 14, fontStyle: 'bold',
+      label: { x: lx + 6, y: ly + 6, width: Math.max(40, widthPx - 12), wrap: 'none', ellipsis: true, text: room.name, fontSize: 13, fontStyle: 'bold',
         fontFamily: 'Atkinson Hyperlegible, sans-serif', fill: EDITOR_COLOURS.label, listening: false },
     }
   })
@@ -90,8 +92,8 @@ export function itemShapes(ctx: ShapeContext) {
       const [x, y] = ctx.vp.toScreen(e.position)
       items.push({ id: e.id, glyph, x, y, label: label(i), ring: strokeFor(ctx, e.id, '#ffffff') })
     })
-  add('exhaust', ctx.plan.exhausts, () => 'X')
-  add('workstation', ctx.plan.workstations, () => 'W')
+  add('exhaust', ctx.plan.exhausts, () => '')
+  add('workstation', ctx.plan.workstations, () => '')
   add('detector', ctx.plan.detectors, (i) => ctx.plan.detectors[i]!.gasId)
   add('source', ctx.plan.sources, (i) => ctx.plan.sources[i]!.gasId)
   return items

@@ -1,0 +1,122 @@
+import { mkdirSync } from 'node:fs'
+import path from 'node:path'
+import type { Browser, Page } from 'playwright-core'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { insertFloor } from '../../server/repositories/floors.repo'
+import { findUserByEmail } from '../../server/repositories/users.repo'
+import { DEMO_ACCOUNTS } from '../../server/seed/demo-accounts'
+import { ensureDemoSite, seedDemoFloor } from '../../server/seed/demo-floor'
+import { emptyPlan } from '../../shared/floorplan/plan-schema'
+import { ARTIFACTS, launchBrowser } from '../support/browser'
+import { startTestServer } from '../support/test-server'
+
+const officer = DEMO_ACCOUNTS.find((a) => a.role === 'ehs_officer')!
+
+async function shot(page: Page, name: string) {
+  mkdirSync(ARTIFACTS, { recursive: true })
+  await page.screenshot({ path: path.join(ARTIFACTS, `${name}.png`), animations: 'disabled' })
+}
+
+describe('floor-plan editor', () => {
+  let server: Awaited<ReturnType<typeof startTestServer>>
+  let browser: Browser
+  let floorId: number
+  let demoFloorId: number
+
+  beforeAll(async () => {
+    server = await startTestServer()
+    browser = await launchBrowser()
+    const db = server.rt.ctx.db
+    const user = (await findUserByEmail(db, officer.email))!
+    const siteId = await ensureDemoSite(db, user.org_id, 'E2E test building')
+    floorId = (await insertFloor(db, { orgId: user.org_id, siteId, name: 'Drawn in the browser', ceilingHeightM: 3, plan: emptyPlan(), planValid: false, problems: [], userId: user.id })).id
+    demoFloorId = (await seedDemoFloor(db, { orgId: user.org_id, siteId, labManagerIds: [], staffIds: [] })).floorId
+  })
+  afterAll(async () => {
+    await browser?.close()
+    await server?.close()
+  })
+
+  async function signedInPage(): Promise<{ page: Page; errors: string[] }> {
+    const context = await browser.newContext({ viewport: { width: 1440, height: 860 } })
+    const page = await context.newPage()
+    const errors: string[] = []
+    page.on('pageerror', (e) => errors.push(`pageerror: ${e.message}`))
+    page.on('console', (m) => { if (m.type() === 'error' && !/401/.test(m.text())) errors.push(`console: ${m.text()}`) })
+    await page.goto(`${server.url}/sign-in`)
+    await page.getByLabel('E-mail address').fill(officer.email)
+    await page.getByLabel('Password', { exact: true }).fill(officer.password)
+    await page.getByRole('button', { name: 'Sign in' }).click()
+    await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
+    return { page, errors }
+  }
+
+  it('draws a room and a door with the mouse, places a source, and finds them after a reload', async () => {
+    const { page, errors } = await signedInPage()
+    await page.goto(`${server.url}/floors/${floorId}`)
+    await expect.poll(() => page.getByTestId('floor-title').textContent()).toBe('Drawn in the browser')
+    const canvas = page.getByTestId('editor-canvas')
+    const box = (await canvas.boundingBox())!
+    const at = (x: number, y: number) => [box.x + x, box.y + y] as const
+
+    // A room: drag a rectangle with the room tool.
+    await page.getByTestId('tool-room-rect').click()
+    await page.mouse.move(...at(160, 140))
+    await page.mouse.down()
+    await page.mouse.move(...at(300, 250), { steps: 5 })
+    await page.mouse.move(...at(480, 380), { steps: 5 })
+    await page.mouse.up()
+    // A second room sharing the right wall: its corners snap onto the first room's corners.
+    await page.mouse.move(...at(484, 143))
+    await page.mouse.down()
+    await page.mouse.move(...at(700, 300), { steps: 5 })
+    await page.mouse.move(...at(720, 377), { steps: 5 })
+    await page.mouse.up()
+
+    // A door on the shared wall (press D, hover the wall, click).
+    await canvas.focus()
+    await page.keyboard.press('d')
+    await page.mouse.move(...at(478, 260), { steps: 3 })
+    await page.mouse.click(...at(481, 262))
+
+    // A source in the first room, then choose its gas in the property panel.
+    await page.getByTestId('tool-source').click()
+    await page.mouse.click(...at(260, 300))
+    await page.getByTestId('prop-gas').click()
+    await page.getByRole('option', { name: /^NH3/ }).click()
+
+    await expect.poll(() => page.getByTestId('save-state').getAttribute('data-state'), { timeout: 15_000 }).toBe('saved')
+    await shot(page, 'editor-drawn')
+
+    await page.reload()
+    await expect.poll(() => page.getByTestId('floor-title').textContent()).toBe('Drawn in the browser')
+    const saved = await page.evaluate(async (id) => (await fetch(`/api/floors/${id}`)).json(), floorId)
+    expect(saved.plan.rooms).toHaveLength(2)
+    expect(saved.plan.openings).toHaveLength(1)
+    expect(saved.plan.sources).toHaveLength(1)
+    expect(saved.plan.sources[0].gasId).toBe('NH3')
+    // The rooms share a wall exactly and the door sits on it: no overlap, no door off a wall.
+    expect(saved.problems.map((p: { code: string }) => p.code)).not.toContain('room_overlap')
+    expect(saved.problems.map((p: { code: string }) => p.code)).not.toContain('opening_not_on_wall')
+    const [a, b] = saved.plan.rooms
+    expect(a.polygon[1][0]).toBe(b.polygon[0][0])
+    // The editor shows them again: the floor summary counts them, and select-all picks all four.
+    await expect.poll(() => page.getByTestId('property-panel').textContent()).toContain('2 rooms · 1 openings · 1 sources')
+    await page.getByTestId('editor-canvas').click({ position: { x: 5, y: 5 } })
+    await page.keyboard.press('Control+a')
+    await expect.poll(() => page.getByTestId('property-panel').textContent()).toContain('4 items selected')
+    await shot(page, 'editor-reloaded')
+    expect(errors).toEqual([])
+  })
+
+  it('shows the demo floor with its rooms, items and no problems', async () => {
+    const { page, errors } = await signedInPage()
+    await page.goto(`${server.url}/floors/${demoFloorId}`)
+    await expect.poll(() => page.getByTestId('problem-list').textContent()).toContain('No problems')
+    await shot(page, 'editor-demo-floor')
+    await page.goto(`${server.url}/floors`)
+    await expect.poll(() => page.getByText('E2E test building').count()).toBeGreaterThan(0)
+    await shot(page, 'floor-list')
+    expect(errors).toEqual([])
+  })
+})
