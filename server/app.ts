@@ -16,6 +16,7 @@ import { scenariosRoutes } from './routes/scenarios.routes'
 import { sitesRoutes } from './routes/sites.routes'
 import { systemRoutes } from './routes/system.routes'
 import { usersRoutes } from './routes/users.routes'
+import { plansRoutes } from './routes/plans.routes'
 import type { ServiceContext } from './services/context'
 
 /** Each feature registers its routes here; order only matters for identical paths. */
@@ -27,6 +28,7 @@ const FEATURES: ((api: ApiRoutes, ctx: ServiceContext) => void)[] = [
   floorsRoutes,
   scenariosRoutes,
   runsRoutes,
+  plansRoutes,
 ]
 
 export interface AppOptions {

@@ -1,6 +1,6 @@
 import type { Plan, Room } from '../floorplan/plan-schema'
 import { segmentOnPolygonEdge } from '../geometry/polygon'
-import type { LimitLine, ReceptorSummary, RunSummary } from '../schemas/runs'
+import type { ReceptorSummary, RunSummary } from '../schemas/runs'
 import { VENTILATION_STATE_LABELS } from '../schemas/runs'
 import type {
   AlarmLevel, ChecklistStep, DerivedFrom, EvacuationRoom, HazardItem, PlanContent, PlanLine, PlanRole, TimelineRow,
@@ -49,8 +49,6 @@ const minOrNull = (values: (number | null | undefined)[]): number | null => {
   const f = values.filter((v): v is number => typeof v === 'number' && Number.isFinite(v))
   return f.length ? Math.min(...f) : null
 }
-
-const limitLabel = (limits: LimitLine[], key: string) => limits.find((l) => l.key === key)?.label ?? CRITICAL_LABEL[key] ?? key
 
 /** Earliest critical level at a workstation: at the workstation itself or anywhere at breathing height in its room. */
 export function criticalTimeAt(summary: RunSummary, ws: ReceptorSummary): { timeS: number | null; key: string | null; where: 'workstation' | 'room' | null } {

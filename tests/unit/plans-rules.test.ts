@@ -94,7 +94,7 @@ describe('plan rules on the hand-computed case', () => {
         { key: 'o2_19_5', label: 'O2 19.5 %', ppm: 66986, source: '29 CFR 1910.134' }],
       firstAlarm: null,
     })
-    s.receptors = s.receptors.map((r) => ({ ...r, alarmLowS: null, alarmHighS: null, firstExceedS: r.kind === 'workstation' ? { lel_25: 90 } : {} }))
+    s.receptors = s.receptors.map((r) => ({ ...r, alarmLowS: null, alarmHighS: null, firstExceedS: (r.kind === 'workstation' ? { lel_25: 90 } : {}) as Record<string, number | null> }))
     s.rooms = s.rooms.map((r) => ({ ...r, firstExceedS: {} }))
     const p = generatePlan(floor, [{ id: 9, label: 'H2', summary: s }])
     expect(p.timeline.rows.find((r) => r.id === 'tl-9-ws-a-egress')!.event).toMatch(/no detector alarm/)

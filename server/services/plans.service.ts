@@ -1,0 +1,262 @@
+import { createHash } from 'node:crypto'
+import { Plan } from '../../shared/floorplan/plan-schema'
+import { hashInput } from '../../shared/plans/canonical'
+import { generatePlan, type PlanRunInput } from '../../shared/plans/rules'
+import {
+  type AckRecord, type NewPlan, PlanContent, type PlanDetail, type PlanListItem, type VersionSummary,
+} from '../../shared/schemas/plans'
+import { RunSummary } from '../../shared/schemas/runs'
+import { AppError, conflict, forbidden, notFound } from '../http/errors'
+import type { Actor } from '../http/session-user'
+import { composeMail } from '../mail/compose'
+import { appendAudit } from '../repositories/audit.repo'
+import { floorIdsOfUser } from '../repositories/floors.repo'
+import {
+  auditOf, findDraft, findLatestPublished, findPlanInOrg, findVersion, insertAck, insertPlan, insertVersion, listAcks, listPlansInOrg,
+  listVersions, managersOfFloors, maxVersion, publishDraft, runsWithSummaries, updateDraftContent,
+} from '../repositories/plans.repo'
+import type { ServiceContext } from './context'
+import { canManageFloors, requireVisibleFloor } from './floors.service'
+import { renderPlanPdf } from './plan-pdf.service'
+
+type PlanRow = NonNullable<Awaited<ReturnType<typeof findPlanInOrg>>>
+type VersionRow = NonNullable<Awaited<ReturnType<typeof findVersion>>>
+
+const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null)
+export const contentHash = (planId: number, version: number, floorId: number | null, content: unknown) =>
+  createHash('sha256').update(hashInput({ planId, version, floorId, content })).digest('hex')
+
+export const canEditPlans = (actor: Pick<Actor, 'role'>) => canManageFloors(actor)
+
+/** The plan if the caller may see it: officers see all of the organization, lab managers the plans of their floors. */
+async function requirePlan(ctx: ServiceContext, actor: Actor, id: number): Promise<PlanRow> {
+  const plan = await findPlanInOrg(ctx.db, actor.orgId, id)
+  if (!plan) throw notFound('Plan')
+  if (!canEditPlans(actor)) {
+    if (plan.floor_id === null || !(await floorIdsOfUser(ctx.db, actor.id)).includes(plan.floor_id)) throw notFound('Plan')
+    if (!(await findLatestPublished(ctx.db, id))) throw notFound('Plan')
+  }
+  return plan
+}
+
+function ackState(acked: boolean, dueAt: Date | string | null, now: Date): 'done' | 'pending' | 'overdue' {
+  if (acked) return 'done'
+  return dueAt && new Date(dueAt).getTime() < now.getTime() ? 'overdue' : 'pending'
+}
+
+/** The dashboard: every visible plan with its acknowledgment counts for the latest published version. */
+export async function listPlans(ctx: ServiceContext, actor: Actor): Promise<{ plans: PlanListItem[] }> {
+  const floorIds = canEditPlans(actor) ? undefined : await floorIdsOfUser(ctx.db, actor.id)
+  const plans = await listPlansInOrg(ctx.db, actor.orgId, floorIds)
+  const ids = plans.map((p) => p.id)
+  const [versions, acks, managers] = await Promise.all([
+    listVersions(ctx.db, ids), listAcks(ctx.db, ids), managersOfFloors(ctx.db, plans.flatMap((p) => (p.floor_id ? [p.floor_id] : []))),
+  ])
+  const now = new Date()
+  const out: PlanListItem[] = []
+  for (const p of plans) {
+    const vs = versions.filter((v) => v.plan_id === p.id)
+    const published = vs.find((v) => v.status === 'published')
+    if (!canEditPlans(actor) && !published) continue
+    const draft = vs.find((v) => v.status === 'draft')
+    const shown = canEditPlans(actor) ? vs[0] : published
+    const mgrs = managers.filter((m) => m.floor_id === p.floor_id)
+    const counts = { done: 0, pending: 0, overdue: 0 }
+    let mine: PlanListItem['mine'] = null
+    if (published) {
+      for (const m of mgrs) {
+        const st = ackState(acks.some((a) => a.plan_id === p.id && a.version === published.version && a.user_id === m.id), published.ack_due_at, now)
+        counts[st]++
+        if (m.id === actor.id) mine = st
+      }
+    }
+    const title = shown ? await versionTitle(ctx, p.id, shown.version) : p.floor_name
+    out.push({
+      id: p.id, title, floorId: p.floor_id, floorName: p.floor_name, siteName: p.site_name, latestVersion: vs[0]?.version ?? 0,
+      latestPublished: published?.version ?? null, hasDraft: !!draft, publishedAt: iso(published?.published_at), ackDueAt: iso(published?.ack_due_at),
+      acks: counts, mine,
+    })
+  }
+  return { plans: out }
+}
+
+async function versionTitle(ctx: ServiceContext, planId: number, version: number) {
+  const v = await findVersion(ctx.db, planId, version)
+  return (v?.content as PlanContent | undefined)?.title ?? `Plan ${planId}`
+}
+
+/** Finished results of a floor a plan can be generated from. */
+export async function runsOfFloor(ctx: ServiceContext, actor: Actor, floorId: number) {
+  await requireVisibleFloor(ctx.db, actor, floorId)
+  const rows = await runsWithSummaries(ctx.db, actor.orgId, floorId)
+  return {
+    runs: rows.map((r) => ({ id: r.id, label: r.label, finishedAt: iso(r.finished_at), gasName: (r.summary as RunSummary | null)?.gas?.name ?? '?' })),
+  }
+}
+
+/** Applies the rules of shared/plans/rules.ts to the chosen results and stores the draft of version 1. */
+export async function createPlan(ctx: ServiceContext, actor: Actor, input: NewPlan): Promise<PlanDetail> {
+  const floor = await requireVisibleFloor(ctx.db, actor, input.floorId)
+  const ids = [...new Set(input.runIds)]
+  const rows = await runsWithSummaries(ctx.db, actor.orgId, input.floorId, ids)
+  const fields: Record<string, string> = {}
+  const runs: PlanRunInput[] = []
+  ids.forEach((id, i) => {
+    const row = rows.find((r) => r.id === id)
+    const parsed = row ? RunSummary.safeParse(row.summary) : null
+    if (!row) fields[`runIds.${i}`] = 'No finished result with this id on this floor'
+    else if (!parsed?.success) fields[`runIds.${i}`] = 'This result has no readable summary'
+    else runs.push({ id, label: row.label, summary: parsed.data })
+  })
+  if (Object.keys(fields).length) throw new AppError(400, 'validation_failed', `Some fields are not valid: ${Object.keys(fields).join(', ')}`, fields)
+  const planDoc = Plan.safeParse(floor.plan)
+  if (!planDoc.success) throw new AppError(400, 'validation_failed', 'The floor plan cannot be read', { floorId: 'The floor plan is not valid' })
+  const content = PlanContent.parse(generatePlan({ name: floor.name, siteName: floor.site_name, plan: planDoc.data }, runs, input.title))
+
+  const id = await ctx.db.transaction().execute(async (trx) => {
+    const plan = await insertPlan(trx, { orgId: actor.orgId, floorId: floor.id, floorName: floor.name, siteName: floor.site_name, runIds: ids, userId: actor.id })
+    await insertVersion(trx, { orgId: actor.orgId, planId: plan.id, version: 1, content, userId: actor.id })
+    await appendAudit(trx, { orgId: actor.orgId, actorId: actor.id, action: 'plan.generated', targetType: 'plan', targetId: plan.id, detail: { runIds: ids, floorId: floor.id } })
+    return plan.id
+  })
+  return getPlan(ctx, actor, id)
+}
+
+function versionSummary(v: Awaited<ReturnType<typeof listVersions>>[number]): VersionSummary {
+  return { version: v.version, status: v.status, contentHash: v.content_hash, publishedAt: iso(v.published_at), publishedBy: v.published_by_name ?? null,
+    ackDueAt: iso(v.ack_due_at), updatedAt: iso(v.updated_at)! }
+}
+
+function ackRecord(a: Awaited<ReturnType<typeof listAcks>>[number]): AckRecord {
+  return { id: a.id, userId: a.user_id, name: a.name, at: iso(a.acknowledged_at)!, comment: a.comment, version: a.version }
+}
+
+export async function getPlan(ctx: ServiceContext, actor: Actor, id: number): Promise<PlanDetail> {
+  const plan = await requirePlan(ctx, actor, id)
+  const editor = canEditPlans(actor)
+  const [versions, acks, managers] = await Promise.all([
+    listVersions(ctx.db, [id]), listAcks(ctx.db, [id]), managersOfFloors(ctx.db, plan.floor_id ? [plan.floor_id] : []),
+  ])
+  const visible = editor ? versions : versions.filter((v) => v.status === 'published')
+  const published = visible.find((v) => v.status === 'published')
+  const shown = editor ? visible[0]! : published!
+  const row = (await findVersion(ctx.db, id, shown.version))!
+  const now = new Date()
+  const mgrStates = managers.map((m) => {
+    const ack = published ? acks.find((a) => a.version === published.version && a.user_id === m.id) : undefined
+    return { userId: m.id, name: m.name, email: m.email, state: ackState(!!ack, published?.ack_due_at ?? null, now), ack: ack ? ackRecord(ack) : null }
+  })
+  const me = mgrStates.find((m) => m.userId === actor.id)
+  return {
+    id: plan.id, floorId: plan.floor_id, floorName: plan.floor_name, siteName: plan.site_name, runIds: plan.run_ids, createdAt: iso(plan.created_at)!,
+    versions: visible.map(versionSummary),
+    current: { version: row.version, status: row.status, contentHash: row.content_hash, content: PlanContent.parse(row.content) },
+    latestPublished: published?.version ?? null,
+    managers: published ? mgrStates : mgrStates.map((m) => ({ ...m, state: 'pending' as const })),
+    acknowledgments: acks.map(ackRecord),
+    canEdit: editor,
+    canAcknowledge: actor.role === 'lab_manager' && !!published && !!me && me.state !== 'done',
+  }
+}
+
+/** One version's frozen (or draft) content; lab managers only see published versions. */
+export async function getVersion(ctx: ServiceContext, actor: Actor, id: number, version: number) {
+  await requirePlan(ctx, actor, id)
+  const v = await findVersion(ctx.db, id, version)
+  if (!v || (!canEditPlans(actor) && v.status !== 'published')) throw notFound('Plan version')
+  return { version: v.version, status: v.status, contentHash: v.content_hash, content: PlanContent.parse(v.content) }
+}
+
+/** Edits the draft; when the latest version is published, the edit becomes the draft of the next version. */
+export async function saveDraft(ctx: ServiceContext, actor: Actor, id: number, content: PlanContent): Promise<PlanDetail> {
+  await requirePlan(ctx, actor, id)
+  await ctx.db.transaction().execute(async (trx) => {
+    const draft = await findDraft(trx, id)
+    let version: number
+    if (draft) {
+      await updateDraftContent(trx, draft.id, content, actor.id)
+      version = draft.version
+    } else {
+      version = (await maxVersion(trx, id)) + 1
+      await insertVersion(trx, { orgId: actor.orgId, planId: id, version, content, userId: actor.id })
+    }
+    await appendAudit(trx, { orgId: actor.orgId, actorId: actor.id, action: 'plan.draft_saved', targetType: 'plan', targetId: id, detail: { version } })
+  })
+  return getPlan(ctx, actor, id)
+}
+
+/** Freezes the draft with its content hash and asks each lab manager of the floor to acknowledge it, by e-mail. */
+export async function publishPlan(ctx: ServiceContext, actor: Actor, id: number, ackDueDays: number): Promise<PlanDetail> {
+  const plan = await requirePlan(ctx, actor, id)
+  await ctx.db.transaction().execute(async (trx) => {
+    const draft = await findDraft(trx, id)
+    if (!draft) throw conflict('There is no draft to publish: edit the plan first', 'no_draft')
+    const content = PlanContent.parse(draft.content)
+    const hash = contentHash(id, draft.version, plan.floor_id, content)
+    const published = await publishDraft(trx, draft.id, { hash, userId: actor.id, ackDueDays })
+    if (!published) throw conflict('Someone published this draft in the meantime', 'stale_version')
+    const managers = await managersOfFloors(trx, plan.floor_id ? [plan.floor_id] : [])
+    for (const m of managers) {
+      const url = `${ctx.publicUrl()}/plans/${id}`
+      const mail = composeMail({
+        subject: `Please acknowledge: ${content.title} (version ${draft.version})`,
+        greeting: `Hello ${m.name},`,
+        paragraphs: [
+          `${actor.name} published version ${draft.version} of the response plan "${content.title}" for ${plan.site_name}, ${plan.floor_name}. As a lab manager of this floor, please read it and acknowledge it by ${new Date(published.ack_due_at!).toISOString().slice(0, 10)}.`,
+          `Version fingerprint (sha256): ${hash}`,
+          'The plan is a screening-based planning aid. It does not replace the site emergency action plan, local codes or the authority having jurisdiction.',
+        ],
+        action: { label: 'Open the plan', url },
+      })
+      await ctx.mail.queue(trx, { orgId: actor.orgId, kind: 'plan_ack_request', ref: `plan:${id}:v${draft.version}:user:${m.id}`, to: m.email, ...mail })
+    }
+    await appendAudit(trx, { orgId: actor.orgId, actorId: actor.id, action: 'plan.published', targetType: 'plan', targetId: id,
+      detail: { version: draft.version, hash, notified: managers.map((m) => m.id), ackDueDays } })
+  })
+  return getPlan(ctx, actor, id)
+}
+
+/** A lab manager of the floor acknowledges the latest published version; once, for good. */
+export async function acknowledgePlan(ctx: ServiceContext, actor: Actor, id: number, version: number, comment: string): Promise<AckRecord> {
+  const plan = await requirePlan(ctx, actor, id)
+  const managers = await managersOfFloors(ctx.db, plan.floor_id ? [plan.floor_id] : [])
+  if (!managers.some((m) => m.id === actor.id)) throw forbidden('Only the lab managers responsible for this floor can acknowledge its plan')
+  const v: VersionRow | undefined = await findVersion(ctx.db, id, version)
+  if (!v || v.status !== 'published') throw notFound('Published plan version')
+  const latest = await findLatestPublished(ctx.db, id)
+  if (latest && latest.version !== version) throw conflict(`Version ${version} has been replaced by version ${latest.version}; acknowledge the current version`, 'stale_version')
+  const ack = await ctx.db.transaction().execute(async (trx) => {
+    const row = await insertAck(trx, { orgId: actor.orgId, versionId: v.id, userId: actor.id, name: actor.name, comment, hash: v.content_hash! })
+    if (!row) throw conflict('You have already acknowledged this version', 'already_acknowledged')
+    await appendAudit(trx, { orgId: actor.orgId, actorId: actor.id, action: 'plan.acknowledged', targetType: 'plan', targetId: id,
+      detail: { version, hash: v.content_hash, comment } })
+    return row
+  })
+  return { id: ack.id, userId: ack.user_id, name: ack.name, at: iso(ack.acknowledged_at)!, comment: ack.comment, version }
+}
+
+export async function planAudit(ctx: ServiceContext, actor: Actor, id: number) {
+  await requirePlan(ctx, actor, id)
+  const rows = await auditOf(ctx.db, actor.orgId, 'plan', id)
+  return { entries: rows.map((r) => ({ at: iso(r.at)!, actor: r.actor ?? null, action: r.action, detail: r.detail })) }
+}
+
+/** The PDF of one version: content, figure, timeline, checklist, acknowledgment record, hash, cautions. */
+export async function planPdf(ctx: ServiceContext, actor: Actor, id: number, version: number): Promise<{ bytes: Buffer; fileName: string }> {
+  const plan = await requirePlan(ctx, actor, id)
+  const v = await findVersion(ctx.db, id, version)
+  if (!v || (!canEditPlans(actor) && v.status !== 'published')) throw notFound('Plan version')
+  const content = PlanContent.parse(v.content)
+  const [acks, managers] = await Promise.all([listAcks(ctx.db, [id]), managersOfFloors(ctx.db, plan.floor_id ? [plan.floor_id] : [])])
+  const floor = plan.floor_id ? await requireVisibleFloor(ctx.db, { ...actor, role: 'admin' }, plan.floor_id).catch(() => null) : null
+  const floorPlan = floor ? Plan.safeParse(floor.plan) : null
+  const bytes = await renderPlanPdf({
+    ctx, orgId: actor.orgId, planId: id, floorName: plan.floor_name, siteName: plan.site_name, runIds: plan.run_ids,
+    version: v.version, status: v.status, hash: v.content_hash, publishedAt: iso(v.published_at), content,
+    floorPlan: floorPlan?.success ? floorPlan.data : null,
+    acks: acks.filter((a) => a.version === v.version).map(ackRecord),
+    pending: managers.filter((m) => !acks.some((a) => a.version === v.version && a.user_id === m.id)).map((m) => m.name),
+  })
+  await appendAudit(ctx.db, { orgId: actor.orgId, actorId: actor.id, action: 'plan.pdf_downloaded', targetType: 'plan', targetId: id, detail: { version } })
+  return { bytes, fileName: `plan-${id}-v${v.version}.pdf` }
+}
