@@ -64,6 +64,10 @@ export async function propose(ctx: ServiceContext, actor: Actor, floorId: number
   const mount = mountingHeightFor(gas, floor.ceiling_height_m)
   const roomOf = (x: number, y: number) => plan.rooms.find((r) => pointInPolygon([x, y], r.polygon)) ?? null
   const alarm = defaultAlarmSetPoints(gas).find((a) => Math.abs(a.ppm - limit.ppm) <= 1e-9 * limit.ppm)
+  // First hazard's pair of defaults (toxic for NH3, oxygen for N2...).
+  const all = defaultAlarmSetPoints(gas)
+  const hz = all[0]?.hazard
+  const defaults = all.filter((a) => a.hazard === hz)
   const fin = (t: number) => (Number.isFinite(t) ? t : null)
   return {
     method: choice.method,
@@ -79,6 +83,9 @@ export async function propose(ctx: ServiceContext, actor: Actor, floorId: number
     perRun: parsed.map((p, s) => ({ runId: p.run.id, label: p.run.label, timeS: fin(choice.perScenario[s]!.time), byIndex: choice.perScenario[s]!.by })),
     coverageChoice: { positions: coverage.chosen.map((c) => inside[c]!), covered: coverage.covered },
     candidatesEvaluated: inside.length,
+    gasId,
+    alarmLowPpm: defaults[0]?.ppm ?? limit.ppm,
+    alarmHighPpm: defaults[1]?.ppm ?? defaults[0]?.ppm ?? limit.ppm,
     notes: [
       `Times are read from the stored fronts at the breathing-height plane (${parsed[0]!.meta.breathingHeightM} m) of each run, on its ${parsed[0]!.meta.cellM} m grid; they do not include the detector's own response time (T90) or sample transport.`,
       `Mounting height when accepted: ${mount.heightM} m. ${mount.basis}.`,

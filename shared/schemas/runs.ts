@@ -239,6 +239,10 @@ export const AdvisorProposal = z.object({
   coverageChoice: z.object({ positions: z.array(Point), covered: z.number() }),
   candidatesEvaluated: z.number().int(),
   notes: z.array(z.string()),
+  gasId: z.string(),
+  /** Set points proposed for the new detectors (the gas's defaults: common practice, to be set by the site). */
+  alarmLowPpm: z.number(),
+  alarmHighPpm: z.number(),
 })
 export type AdvisorProposal = z.infer<typeof AdvisorProposal>
 
