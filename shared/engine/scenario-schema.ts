@@ -115,8 +115,8 @@ export const NumericsSchema = z.object({
   time_step_s: pos(3600).optional(),
   /** Target local error per step of the accuracy control (relative). @default 0.002 */
   tolerance: finite.min(1e-6).max(0.5).default(0.002),
-  /** Largest time step allowed, s. @default 30 */
-  max_time_step_s: pos(3600).default(30),
+  /** Largest time step allowed, s. @default 60 */
+  max_time_step_s: pos(3600).default(60),
   /** First step after a release event, s. @default 0.5 */
   initial_time_step_s: pos(600).default(0.5),
 }).strict()
@@ -139,7 +139,7 @@ export const ScenarioSchema = z.object({
   thresholds_ppm: z.array(pos(1e6)).max(20).default([]),
   /** Height of the breathing-zone snapshot and of the fronts, m. @default 1.5 */
   breathing_height_m: nonNeg(100).default(1.5),
-  numerics: NumericsSchema.default({ tolerance: 0.002, max_time_step_s: 30, initial_time_step_s: 0.5 }),
+  numerics: NumericsSchema.default({ tolerance: 0.002, max_time_step_s: 60, initial_time_step_s: 0.5 }),
 }).strict()
 
 /** A scenario file as written (before defaults). */

@@ -1,7 +1,7 @@
 import type { Gas } from '../gases/gas-schema'
 import { SimulationCancelled } from './errors'
-import { explicitStableStep, explicitTransportStep } from './explicit-baseline'
-import { implicitSweep, implicitSweepContiguous } from './implicit-sweep'
+import { applyOperator, explicitStableStep, outgoingRates } from './operator'
+import { factorSweep, solveFactored, type SweepFactor } from './factored-sweep'
 import { buildModel, type Model } from './model'
 import type { Scenario } from './scenario-schema'
 import { thresholdsFor, type Threshold } from './thresholds'
@@ -61,7 +61,7 @@ export interface SimulationResult {
   diffusivity_m2_s: number
   diffusivity_basis: string
   gas: Gas
-  stats: { cells: number; grid_cells: number; steps: number; wall_s: number; min_dt_s: number; max_dt_s: number; solver: string }
+  stats: { cells: number; grid_cells: number; steps: number; wall_s: number; min_dt_s: number; max_dt_s: number; clipped_m3: number; solver: string }
 }
 
 const TWA_WINDOW_S = 900
@@ -88,9 +88,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const nPlan = nx * ny, n = nPlan * nz
   const explicit = opts.solver === 'explicit-baseline'
   const c = new Float64Array(n)
-  const c0 = new Float64Array(n)
   const dPrev = new Float64Array(n)
-  const scratch = new Float64Array(n)
 
   const duration = s.duration_s, interval = s.output_interval_s
   const nOut = Math.floor(duration / interval + 1e-9) + 1
@@ -144,35 +142,45 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     }
   }
   let outIndex = 0
-  const recordOutput = (t: number) => {
+  const integralPrev = new Float64Array(nPlan)
+  /** Record output `outIndex` at time t, a fraction θ of the way through the last step (linear in time). */
+  const recordOutput = (t: number, theta: number) => {
     const bh = breathing[outIndex]!, cm = columnMax[outIndex]!
+    const back = 1 - theta
+    const at = (p: number) => { const v = c[p]! - back * dPrev[p]!; return v > 0 ? v : 0 }
     for (let pp = 0; pp < nPlan; pp++) {
       if (m.roomOfPlan[pp]! < 0) { bh[pp] = NaN; cm[pp] = NaN; continue }
-      bh[pp] = bhAt(pp) * 1e6
+      bh[pp] = (at(pp + nPlan * k0) * (1 - wb) + at(pp + nPlan * k1) * wb) * 1e6
       let mx = 0
-      for (let k = 0; k < nz; k++) { const v = c[pp + nPlan * k]!; if (v > mx) mx = v }
+      for (let k = 0; k < nz; k++) { const v = at(pp + nPlan * k); if (v > mx) mx = v }
       cm[pp] = mx * 1e6
     }
-    for (let q = 0; q < m.probes.length; q++) probeSeries[q]![outIndex] = probeAt(q) * 1e6
+    for (let q = 0; q < m.probes.length; q++) {
+      const pr = m.probes[q]!
+      let v = 0
+      for (let a = 0; a < pr.cells.length; a++) v += at(pr.cells[a]!) * pr.weights[a]!
+      probeSeries[q]![outIndex] = v * 1e6
+    }
     // Rolling 15-min TWA at the breathing height from the running integral, sampled at outputs.
-    const slot = outIndex % ringLen
-    ring[slot]!.set(integral)
+    const slot = ring[outIndex % ringLen]!
+    for (let pp = 0; pp < nPlan; pp++) slot[pp] = integralPrev[pp]! + theta * (integral[pp]! - integralPrev[pp]!)
     const tBack = t - TWA_WINDOW_S
-    let back: Float64Array | null = null, back2: Float64Array | null = null, f = 0
+    let b1: Float64Array | null = null, b2: Float64Array | null = null, f = 0
     if (tBack > 0) {
       const kb = Math.floor(tBack / interval + 1e-9)
       f = (tBack - kb * interval) / interval
-      back = ring[kb % ringLen]!
-      back2 = f > 1e-9 ? ring[(kb + 1) % ringLen]! : back
+      b1 = ring[kb % ringLen]!
+      b2 = f > 1e-9 ? ring[(kb + 1) % ringLen]! : b1
     }
     for (let pp = 0; pp < nPlan; pp++) {
-      const ib = back === null ? 0 : back[pp]! * (1 - f) + back2![pp]! * f
-      const twa = (integral[pp]! - ib) / TWA_WINDOW_S
+      const ib = b1 === null ? 0 : b1[pp]! * (1 - f) + b2![pp]! * f
+      const twa = (slot[pp]! - ib) / TWA_WINDOW_S
       if (twa > maxTwa[pp]!) maxTwa[pp] = twa
     }
     outIndex++
   }
   const observeStep = (tPrev: number, dt: number) => {
+    integralPrev.set(integral)
     for (let pp = 0; pp < nPlan; pp++) {
       if (m.roomOfPlan[pp]! < 0) continue
       const v = bhAt(pp), vp = bhPrev[pp]!
@@ -190,6 +198,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     for (let q = 0; q < m.probes.length; q++) {
       const v = probeAt(q), vp = probePrev[q]!
       if (v > probePeak[q]!) { probePeak[q] = v; probePeakT[q] = tPrev + dt }
+
       const first = probeFirst[q]!
       for (let k = 0; k < nThr; k++) {
         if (first[k] !== Infinity || v < thrFrac[k]!) continue
@@ -199,70 +208,107 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     }
   }
 
-  const transport = (dt: number, step: number) => {
-    // Cleanroom return: what left through the floor comes back through the ceiling, less the exhaust.
+  // Per-cell first-order sinks: dilution ventilation, local exhaust and (bottom layer) floor outflow.
+  const sink = new Float64Array(n)
+  for (let pp = 0; pp < nPlan; pp++) {
+    const r = m.roomOfPlan[pp]!
+    if (r < 0) continue
+    for (let k = 0; k < nz; k++) sink[pp + nPlan * k] = m.roomDecay[r]!
+    sink[pp] += m.floorOut[pp]!
+  }
+  for (let a = 0; a < m.exhaustCells.length; a++) sink[m.exhaustCells[a]!] += m.exhaustRates[a]!
+  const returnOfRoom = new Int32Array(m.roomIds.length).fill(-1)
+  m.returns.forEach((rt, q) => { returnOfRoom[rt.room] = q })
+  const rhs = new Float64Array(n)
+  let clipped = 0
+
+  /** Removal by each mechanism at rate × field × dt (field = new values for the implicit step, old for FTCS). */
+  const accountSinks = (f: Float64Array, dt: number) => {
+    const w = dt * vc
+    for (let pp = 0; pp < nPlan; pp++) {
+      const r = m.roomOfPlan[pp]!
+      if (r < 0) continue
+      const k = m.roomDecay[r]!
+      if (k > 0) {
+        let col = 0
+        for (let kk = 0; kk < nz; kk++) col += f[pp + nPlan * kk]!
+        removedVent += k * col * w
+      }
+      if (m.floorOut[pp]! > 0) returnGas[returnOfRoom[r]!] += m.floorOut[pp]! * f[pp]! * w
+    }
+    for (let a = 0; a < m.exhaustCells.length; a++) removedExhaust += m.exhaustRates[a]! * f[m.exhaustCells[a]!]! * w
+  }
+  /** Sources and the cleanroom return supply, as volume fractions added over the step (into `target`). */
+  const addInputs = (target: Float64Array, dt: number, tNew: number) => {
+    for (let q = 0; q < m.sources.length; q++) {
+      const src = m.sources[q]!
+      const v = src.history.cumulative(tNew)
+      const add = v - released[q]!
+      if (add > 0) { target[src.cell] += add / vc; releasedTotal += add; released[q] = v }
+    }
+    // What left through the floor comes back through the ceiling filters, less the exhausted fraction.
     for (let q = 0; q < m.returns.length; q++) {
       const rt = m.returns[q]!
       const out = returnGas[q]! * (1 - Math.exp((-rt.flow * dt) / rt.volume))
       returnGas[q] -= out
       removedDownflow += rt.exhaustFraction * out
       const add = ((1 - rt.exhaustFraction) * out) / (rt.topCells.length * vc)
-      for (let a = 0; a < rt.topCells.length; a++) c[rt.topCells[a]!] += add
+      for (let a = 0; a < rt.topCells.length; a++) target[rt.topCells[a]!] += add
     }
-    // Dilution and local exhaust: exact exponential decay over the step.
-    let anyAch = false
-    for (let r = 0; r < m.roomDecay.length; r++) if (m.roomDecay[r]! > 0) anyAch = true
-    if (anyAch) {
-      for (let pp = 0; pp < nPlan; pp++) {
-        const r = m.roomOfPlan[pp]!
-        if (r < 0) continue
-        const k = m.roomDecay[r]!
-        if (k === 0) continue
-        const f = Math.exp(-k * dt)
-        for (let kk = 0; kk < nz; kk++) {
-          const p = pp + nPlan * kk
-          const v = c[p]!
-          c[p] = v * f
-          removedVent += v * (1 - f) * vc
-        }
-      }
-    }
-    for (let a = 0; a < m.exhaustCells.length; a++) {
-      const p = m.exhaustCells[a]!
-      const v = c[p]!
-      const f = Math.exp(-m.exhaustRates[a]! * dt)
-      c[p] = v * f
-      removedExhaust += v * (1 - f) * vc
-    }
+  }
+  const out = outgoingRates(m, sink)
+  const factors = new Map<number, SweepFactor[]>()
+  let oddFactor: SweepFactor[] | null = null
+  /** Factorisations of the three sweeps for step h; cached per ladder level, recomputed for odd steps. */
+  const factorsFor = (h: number, level: number): SweepFactor[] => {
+    const cached = level >= 0 ? factors.get(level) : undefined
+    if (cached) return cached
+    const into = level >= 0 ? undefined : oddFactor ?? undefined
+    const f = [
+      factorSweep(m.fwdX, m.bwdX, h, ny * nz, nx, 1, null, into?.[0]),
+      factorSweep(m.fwdY, m.bwdY, h, nz, ny, nx, null, into?.[1]),
+      factorSweep(m.fwdZ, m.bwdZ, h, 1, nz, nPlan, sink, into?.[2]),
+    ]
+    if (level >= 0) factors.set(level, f)
+    else oddFactor = f
+    return f
+  }
+
+  const transport = (dt: number, tNew: number, level: number) => {
     if (explicit) {
-      explicitTransportStep(m, c, scratch, dt)
-      // Floor outflow leaves in the explicit update: collect it before swapping.
-      for (let pp = 0; pp < nPlan; pp++) if (m.floorOut[pp]! > 0) addToReturn(pp, dt * m.floorOut[pp]! * c[pp]! * vc)
-      c.set(scratch)
+      accountSinks(c, dt)
+      applyOperator(m, c, out, rhs, dt)
+      addInputs(rhs, dt, tNew)
       return
     }
-    // LOD: x, y, z sweeps, order reversed every other step so the splitting error does not drift one way.
-    if (step % 2 === 0) {
-      implicitSweepContiguous(c, m.fwdX, m.bwdX, scratch, dt, ny * nz, nx)
-      implicitSweep(c, m.fwdY, m.bwdY, scratch, dt, nz, ny, nx, null)
-      implicitSweep(c, m.fwdZ, m.bwdZ, scratch, dt, 1, nz, nPlan, m.floorOut)
-    } else {
-      implicitSweep(c, m.fwdZ, m.bwdZ, scratch, dt, 1, nz, nPlan, m.floorOut)
-      implicitSweep(c, m.fwdY, m.bwdY, scratch, dt, nz, ny, nx, null)
-      implicitSweepContiguous(c, m.fwdX, m.bwdX, scratch, dt, ny * nz, nx)
-    }
-    // Implicit floor outflow: rate × C(new) × dt, which is exactly what the z-sweep removed.
-    for (let pp = 0; pp < nPlan; pp++) if (m.floorOut[pp]! > 0) addToReturn(pp, dt * m.floorOut[pp]! * c[pp]! * vc)
+    // Delta-form approximate factorisation of backward Euler:
+    //   (I + dt Ax)(I + dt Ay)(I + dt (Az + K)) ΔC = dt (S − (A + K) C)
+    // It keeps the exact discrete steady state, and the sink factor is solved last so that the
+    // removal is exactly dt·K·C(new) and mass closes to round-off.
+    applyOperator(m, c, out, rhs, dt)
+    addInputs(rhs, dt, tNew)
+    const f = factorsFor(dt, level)
+    solveFactored(rhs, f[0]!)
+    solveFactored(rhs, f[1]!)
+    solveFactored(rhs, f[2]!)
   }
-  const returnOfRoom = new Int32Array(m.roomIds.length).fill(-1)
-  m.returns.forEach((rt, q) => { returnOfRoom[rt.room] = q })
-  const addToReturn = (pp: number, v: number) => { returnGas[returnOfRoom[m.roomOfPlan[pp]!]!] += v }
 
+  const nRooms = m.roomIds.length
+  const roomOfCell = new Int16Array(n)
+  for (let k = 0; k < nz; k++) roomOfCell.set(m.roomOfPlan, k * nPlan)
+  const roomErr = new Float64Array(nRooms), roomMass = new Float64Array(nRooms)
+  const errCell = new Float64Array(n)
   const num = s.numerics
-  const fixedDt = explicit ? 0.98 * explicitStableStep(m) : num.time_step_s
-  const dtMax = explicit ? Infinity : num.max_time_step_s
-  const dtInit = num.initial_time_step_s
-  let dt = fixedDt ?? dtInit
+  const fixedDt = explicit ? 0.98 * explicitStableStep(m, sink) : num.time_step_s
+  // Step ladder: L0 divides the output interval, levels halve it, so aligned steps land on outputs
+  // and their factorisations are reused.
+  // Steps may be longer than the output interval (outputs are then interpolated in time within the step).
+  const dtCap = num.max_time_step_s
+  const L0 = fixedDt ?? (dtCap >= interval ? interval * 2 ** Math.floor(Math.log2(dtCap / interval) + 1e-9) : interval / Math.ceil(interval / dtCap - 1e-9))
+  const MAX_LEVEL = 30
+  const levelFor = (dtWanted: number) => Math.min(MAX_LEVEL, Math.max(0, Math.ceil(Math.log2(L0 / dtWanted) - 1e-9)))
+  const initLevel = fixedDt !== undefined ? 0 : levelFor(num.initial_time_step_s)
+  let level = initLevel
   let dtLast = 0, haveHistory = false
   let t = 0, steps = 0, nextBreak = 0, minDt = Infinity, maxDt = 0
   let lastProgress = -1
@@ -271,55 +317,79 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   for (let pp = 0; pp < nPlan; pp++) if (m.roomOfPlan[pp]! >= 0) bhPrev[pp] = bhAt(pp)
   for (let q = 0; q < m.probes.length; q++) probePrev[q] = probeAt(q)
   observeStep(0, 0)
-  recordOutput(0)
+  recordOutput(0, 1)
 
   while (outIndex < nOut) {
     if (opts.signal?.cancelled) throw new SimulationCancelled()
     while (nextBreak < breakList.length && breakList[nextBreak]! <= t + 1e-9) nextBreak++
-    const tEvent = Math.min(times[outIndex]!, nextBreak < breakList.length ? breakList[nextBreak]! : Infinity)
-    let h = Math.min(fixedDt ?? dt, dtMax)
+    const tEvent = Math.min(duration, nextBreak < breakList.length ? breakList[nextBreak]! : Infinity)
+    let h = L0 / 2 ** level
+    let stepLevel = explicit ? -1 : level
     const rem = tEvent - t
-    if (rem <= h * 1.2) h = rem
-    else if (rem < 2 * h) h = rem / 2
-    const tNew = t + h
-    c0.set(c)
-    for (let q = 0; q < m.sources.length; q++) {
-      const src = m.sources[q]!
-      const v = src.history.cumulative(tNew)
-      const add = v - released[q]!
-      if (add > 0) { c[src.cell] += add / vc; releasedTotal += add; released[q] = v }
+    if (rem <= h * (1 + 1e-9)) {
+      // Land exactly on the event; reuse a cached level when the remainder is one of them.
+      const lv = Math.round(Math.log2(L0 / rem))
+      stepLevel = !explicit && lv >= 0 && lv <= MAX_LEVEL && Math.abs(L0 / 2 ** lv - rem) <= 1e-9 * rem ? lv : -1
+      h = stepLevel >= 0 ? L0 / 2 ** stepLevel : rem
     }
-    transport(h, steps)
+    const tNew = t + h
+    transport(h, tNew, stepLevel)
+    // New field, clipping and the accuracy estimate in one pass. rhs holds ΔC.
+    let den = 0, neg = 0
+    const ih = 1 / h, ihl = dtLast > 0 ? 1 / dtLast : 0
+    for (let p = 0; p < n; p++) {
+      const d = rhs[p]!
+      const v = c[p]! + d
+      errCell[p] = Math.abs(d * ih - dPrev[p]! * ihl)
+      dPrev[p] = d
+      if (v < 0) { neg -= v; c[p] = 0 } else { c[p] = v; den += v }
+    }
+    if (neg > 0 && den > 0) {
+      // Rare undershoots ahead of steep fronts: zero them and take the same mass from the positive
+      // cells in proportion (a global, mass-conserving fix; the amount is reported in stats).
+      const f = 1 - neg / den
+      for (let p = 0; p < n; p++) c[p] *= f
+      clipped += neg * vc
+    }
+    if (!explicit) accountSinks(c, h)
     steps++
     if (h < minDt) minDt = h
     if (h > maxDt) maxDt = h
     const hitBreak = nextBreak < breakList.length && Math.abs(tNew - breakList[nextBreak]!) < 1e-9
     const tPrev = t
     t = Math.abs(tNew - tEvent) < 1e-9 ? tEvent : tNew
-    // Accuracy control: implicit Euler's local error ≈ (h²/2)|C''|, C'' from two successive increments.
+    observeStep(tPrev, h)
+    // Accuracy control: backward Euler's local error ≈ (h²/2)|C''| with C'' from two successive
+    // increments, relative to the gas in the air; the next step is the ladder level that meets the tolerance.
     if (fixedDt === undefined) {
-      let num2 = 0, den = 0
-      const ih = 1 / h, ihl = dtLast > 0 ? 1 / dtLast : 0
-      for (let p = 0; p < n; p++) {
-        const d = c[p]! - c0[p]!
-        num2 += Math.abs(d * ih - dPrev[p]! * ihl)
-        den += c[p]!
-        dPrev[p] = d
-      }
       if (haveHistory && den > 0) {
-        const err = ((h * h) / (h + dtLast)) * (num2 / den)
-        const factor = err > 0 ? 0.9 * Math.sqrt(num.tolerance / err) : 1.5
-        dt = h * Math.min(1.5, Math.max(0.5, factor))
-      } else dt = Math.min(h * 1.5, dtMax)
+        for (let p = 0; p < n; p++) {
+          const r = roomOfCell[p]!
+          if (r < 0) continue
+          roomErr[r] += errCell[p]!
+          roomMass[r] += c[p]!
+        }
+        // Per-room relative norm, so a room far from the source is controlled as tightly as the source
+        // room once it holds a noticeable share (1e-3) of the airborne gas.
+        let worst = 0
+        for (let r = 0; r < nRooms; r++) {
+          if (roomMass[r]! > 1e-3 * den && roomMass[r]! > 0) worst = Math.max(worst, roomErr[r]! / roomMass[r]!)
+          roomErr[r] = 0
+          roomMass[r] = 0
+        }
+        const err = ((h * h) / (h + dtLast)) * worst
+        const wanted = err > 0 ? h * Math.min(2, 0.9 * Math.sqrt(num.tolerance / err)) : 2 * h
+        level = Math.max(levelFor(wanted), level - 1)
+      } else if (stepLevel >= 0) level = Math.max(level - 1, 0)
       dtLast = h
       haveHistory = true
-    } else {
-      for (let p = 0; p < n; p++) dPrev[p] = c[p]! - c0[p]!
     }
+    // A release event (start, stop, puff) restarts the control from a small step.
+    if (hitBreak && fixedDt === undefined) { level = initLevel; haveHistory = false; dtLast = 0 }
+    while (outIndex < nOut && times[outIndex]! < t - 1e-9) recordOutput(times[outIndex]!, (times[outIndex]! - tPrev) / h)
+    // Puffs at t count in the state at t (outputs are right-continuous in time).
     applyPuffs(t)
-    if (hitBreak) { dt = dtInit; haveHistory = false; dtLast = 0 }
-    observeStep(tPrev, h)
-    if (Math.abs(t - times[outIndex]!) < 1e-9) recordOutput(t)
+    if (outIndex < nOut && times[outIndex]! <= t + 1e-9) recordOutput(times[outIndex]!, 1)
     const frac = t / duration
     if (opts.onProgress && frac - lastProgress >= 0.01) { opts.onProgress(Math.min(frac, 1)); lastProgress = frac }
   }
@@ -370,6 +440,6 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
       closure_error: releasedTotal > 0 ? Math.abs(releasedTotal - totalAir - removed) / releasedTotal : 0,
     },
     diffusivity_m2_s: m.diffusivity, diffusivity_basis: m.diffusivityBasis, gas,
-    stats: { cells: m.airCells, grid_cells: n, steps, wall_s: (now() - t0Wall) / 1000, min_dt_s: minDt, max_dt_s: maxDt, solver: explicit ? 'explicit-baseline (FTCS)' : 'implicit LOD (backward Euler, Thomas)' },
+    stats: { cells: m.airCells, grid_cells: n, steps, wall_s: (now() - t0Wall) / 1000, min_dt_s: minDt, max_dt_s: maxDt, clipped_m3: clipped, solver: explicit ? 'explicit-baseline (FTCS)' : 'implicit delta-form ADI (backward Euler, pre-factorised Thomas)' },
   }
 }
