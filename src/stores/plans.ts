@@ -1,0 +1,64 @@
+import { acceptHMRUpdate, defineStore } from 'pinia'
+import { ref } from 'vue'
+import type { NewPlan, PlanContent, PlanDetail, PlanListItem } from '../../shared/schemas/plans'
+import { type ApiError, toApiError } from '../api/http'
+import { plansApi } from '../api/plans'
+
+/** Response plans: the dashboard list and the plan open in the detail page. */
+export const usePlansStore = defineStore('plans', () => {
+  const plans = ref<PlanListItem[]>([])
+  const current = ref<PlanDetail | null>(null)
+  const audit = ref<{ at: string; actor: string | null; action: string; detail: Record<string, unknown> }[]>([])
+  const isLoading = ref(false)
+  const error = ref<ApiError | null>(null)
+
+  async function fetchList() {
+    isLoading.value = true
+    try {
+      plans.value = await plansApi.list()
+      error.value = null
+    } catch (e) {
+      error.value = toApiError(e)
+    } finally {
+      isLoading.value = false
+    }
+  }
+
+  async function open(id: number) {
+    isLoading.value = true
+    try {
+      current.value = await plansApi.get(id)
+      audit.value = await plansApi.audit(id)
+      error.value = null
+    } catch (e) {
+      current.value = null
+      error.value = toApiError(e)
+    } finally {
+      isLoading.value = false
+    }
+  }
+
+  const runsOfFloor = (floorId: number) => plansApi.runsOfFloor(floorId)
+
+  async function create(input: NewPlan) {
+    current.value = await plansApi.create(input)
+    return current.value
+  }
+  async function saveDraft(content: PlanContent) {
+    current.value = await plansApi.saveDraft(current.value!.id, content)
+    audit.value = await plansApi.audit(current.value.id)
+  }
+  async function publish(ackDueDays: number) {
+    current.value = await plansApi.publish(current.value!.id, ackDueDays)
+    audit.value = await plansApi.audit(current.value.id)
+  }
+  async function acknowledge(comment: string) {
+    const c = current.value!
+    await plansApi.acknowledge(c.id, c.latestPublished!, comment)
+    await open(c.id)
+  }
+
+  return { plans, current, audit, isLoading, error, fetchList, open, runsOfFloor, create, saveDraft, publish, acknowledge }
+})
+
+if (import.meta.hot) import.meta.hot.accept(acceptHMRUpdate(usePlansStore, import.meta.hot))

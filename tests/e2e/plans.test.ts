@@ -1,0 +1,109 @@
+import { mkdirSync } from 'node:fs'
+import path from 'node:path'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Browser, Page } from 'playwright-core'
+import { ARTIFACTS, launchBrowser } from '../support/browser'
+import { startTestServer } from '../support/test-server'
+import { signIn as apiSignIn } from '../support/test-runtime'
+import { acct, planFixture } from '../api/plans-fixtures'
+
+const LAPTOP = { width: 1366, height: 900 }
+
+async function shot(page: Page, name: string, fullPage = false) {
+  mkdirSync(ARTIFACTS, { recursive: true })
+  await page.screenshot({ path: path.join(ARTIFACTS, `${name}.png`), animations: 'disabled', fullPage })
+}
+
+async function signIn(page: Page, email: string, password: string) {
+  await page.getByLabel('E-mail address').fill(email)
+  await page.getByLabel('Password', { exact: true }).fill(password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+}
+
+describe('response plans in the browser', () => {
+  let server: Awaited<ReturnType<typeof startTestServer>>
+  let browser: Browser
+  let fx: Awaited<ReturnType<typeof planFixture>>
+
+  beforeAll(async () => {
+    server = await startTestServer()
+    browser = await launchBrowser()
+    fx = await planFixture(server.rt)
+  })
+  afterAll(async () => {
+    await browser?.close()
+    await server?.close()
+  })
+
+  function watch(page: Page) {
+    const problems: string[] = []
+    page.on('pageerror', (e) => problems.push(`pageerror: ${e.message}`))
+    page.on('console', (m) => { if (m.type() === 'error' && !/401/.test(m.text())) problems.push(`console: ${m.text()}`) })
+    return problems
+  }
+
+  it('an officer generates, edits and publishes; the lab manager opens the plan and acknowledges it', async () => {
+    // Officer: generate from the result, fill the assembly point, publish.
+    const ctx1 = await browser.newContext({ viewport: LAPTOP })
+    const page = await ctx1.newPage()
+    const problems = watch(page)
+    await page.goto(`${server.url}/plans/new`)
+    await signIn(page, acct('ehs_officer').email, acct('ehs_officer').password)
+    await page.getByRole('heading', { name: 'Generate a response plan' }).waitFor()
+    await page.getByTestId('plan-floor').click()
+    await page.getByRole('option', { name: /Level 1/ }).click()
+    await page.getByRole('checkbox', { name: /NH3 cylinder, normal ventilation/ }).click()
+    await page.getByLabel('Title (optional)').fill('Ammonia cylinder <leak> plan')
+    await shot(page, 'plans-new-1366')
+    await page.getByRole('button', { name: 'Generate the draft' }).click()
+    await page.getByTestId('plan-title').waitFor()
+    await expect.poll(() => page.getByTestId('plan-title').textContent()).toBe('Ammonia cylinder <leak> plan')
+    await expect.poll(() => page.getByTestId('plan-predicted').textContent()).toContain('50 s')
+    await shot(page, 'plans-draft-officer-1366')
+    await shot(page, 'plans-draft-officer-full', true)
+
+    await page.getByRole('button', { name: 'Edit' }).click()
+    await page.getByLabel('Assembly point').fill('Car park P3, north-west corner')
+    await page.getByLabel('Person for Incident lead').fill('Tomasz Oyelaran')
+    await shot(page, 'plans-editing-1366')
+    await page.getByRole('button', { name: 'Save draft of version 1' }).click()
+    await expect.poll(() => page.getByText('Assembly point: Car park P3').isVisible()).toBe(true)
+    await page.getByRole('button', { name: 'Publish version 1' }).click()
+    await page.getByRole('dialog').getByRole('button', { name: 'Publish' }).click()
+    await expect.poll(() => page.getByTestId('plan-version').textContent()).toContain('published')
+    const planId = Number(new URL(page.url()).pathname.split('/').pop())
+    expect(problems).toEqual([])
+    await ctx1.close()
+
+    // Lab manager: sees what waits, opens it, acknowledges.
+    const ctx2 = await browser.newContext({ viewport: LAPTOP })
+    const mp = await ctx2.newPage()
+    const p2 = watch(mp)
+    await mp.goto(`${server.url}/plans`)
+    await signIn(mp, acct('lab_manager').email, acct('lab_manager').password)
+    await mp.getByTestId('my-pending').waitFor()
+    await expect.poll(() => mp.getByTestId('ack-totals').textContent()).toMatch(/2\s*Waiting/)
+    await shot(mp, 'plans-list-manager-1366')
+    await mp.getByTestId('my-pending').getByRole('link', { name: 'Ammonia cylinder <leak> plan' }).click()
+    await mp.getByTestId('ack-request').waitFor()
+    await expect.poll(() => mp.getByRole('button', { name: 'Edit' }).count()).toBe(0)
+    await shot(mp, 'plans-manager-open-1366')
+    await mp.getByRole('button', { name: 'Acknowledge', exact: true }).click()
+    await mp.getByLabel('Comment (optional)').fill('Briefed the thin-film team')
+    await mp.getByTestId('plan-acks').scrollIntoViewIfNeeded()
+    await shot(mp, 'plans-manager-ack-form-1366')
+    await mp.getByRole('button', { name: 'Acknowledge version 1' }).click()
+    await expect.poll(() => mp.getByTestId(`ack-state-${fx.managerId}`).textContent()).toBe('Acknowledged')
+    await expect.poll(() => mp.getByTestId('plan-acks').textContent()).toContain('Briefed the thin-film team')
+    await expect.poll(() => mp.getByTestId('ack-request').count()).toBe(0)
+    await mp.getByTestId('plan-acks').scrollIntoViewIfNeeded()
+    await shot(mp, 'plans-manager-acknowledged-1366')
+    expect(p2).toEqual([])
+    await ctx2.close()
+
+    // The server has the record
+    const officer = await apiSignIn(server.rt, acct('ehs_officer').email, acct('ehs_officer').password)
+    const detail = (await officer.get(`/api/plans/${planId}`).expect(200)).body
+    expect(detail.acknowledgments.map((a: { name: string; version: number }) => `${a.version}:${a.name}`)).toEqual([`1:${acct('lab_manager').name}`])
+  })
+})
