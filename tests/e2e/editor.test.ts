@@ -109,6 +109,66 @@ describe('floor-plan editor', () => {
     expect(errors).toEqual([])
   })
 
+  it('draws a polygon, flags an overlap, undoes it, and traces over an uploaded image', async () => {
+    const { page, errors } = await signedInPage()
+    const db = server.rt.ctx.db
+    const user = (await findUserByEmail(db, officer.email))!
+    const siteId = await ensureDemoSite(db, user.org_id, 'E2E test building')
+    const id = (await insertFloor(db, { orgId: user.org_id, siteId, name: 'Polygon and trace', ceilingHeightM: 3, plan: emptyPlan(), planValid: false, problems: [], userId: user.id })).id
+    await page.goto(`${server.url}/floors/${id}`)
+    await expect.poll(() => page.getByTestId('floor-title').textContent()).toBe('Polygon and trace')
+    const canvas = page.getByTestId('editor-canvas')
+    const box = (await canvas.boundingBox())!
+    const at = (x: number, y: number) => [box.x + x, box.y + y] as const
+
+    // An L-shaped room, corner by corner, closed by clicking the first corner again.
+    await page.getByTestId('tool-room-polygon').click()
+    for (const [x, y] of [[150, 120], [420, 120], [420, 260], [300, 260], [300, 400], [150, 400]] as const) await page.mouse.click(...at(x, y))
+    await page.mouse.move(...at(360, 330))
+    await shot(page, 'editor-polygon-drawing')
+    await page.mouse.click(...at(151, 121))
+    // A rectangle that overlaps it.
+    await page.keyboard.press('r')
+    await page.mouse.move(...at(380, 200))
+    await page.mouse.down()
+    await page.mouse.move(...at(560, 340), { steps: 6 })
+    await page.mouse.up()
+    await expect.poll(() => page.getByTestId('problem-list').textContent()).toContain('overlap')
+    await page.getByTestId('problem-list').getByText(/overlap/).click()
+    await expect.poll(() => page.getByTestId('property-panel').textContent()).toContain('2 items selected')
+    await shot(page, 'editor-problems')
+    await page.keyboard.press('Control+z')
+    await expect.poll(() => page.getByTestId('problem-list').textContent()).not.toContain('overlap')
+
+    // Trace: upload a generated PNG floor plan, then calibrate a line drawn on it.
+    const png = await page.evaluate(() => {
+      const c = document.createElement('canvas')
+      c.width = 800; c.height = 500
+      const g = c.getContext('2d')!
+      g.fillStyle = '#fff'; g.fillRect(0, 0, 800, 500)
+      g.strokeStyle = '#333'; g.lineWidth = 6
+      g.strokeRect(20, 20, 760, 460); g.beginPath(); g.moveTo(400, 20); g.lineTo(400, 480); g.moveTo(20, 250); g.lineTo(400, 250); g.stroke()
+      g.font = '28px sans-serif'; g.fillStyle = '#333'; g.fillText('Old drawing, 1998', 440, 300)
+      return c.toDataURL('image/png').split(',')[1]!
+    })
+    await page.getByTestId('underlay-file').setInputFiles({ name: 'scan.png', mimeType: 'image/png', buffer: Buffer.from(png, 'base64') })
+    await expect.poll(() => page.getByRole('button', { name: 'Calibrate scale' }).count()).toBe(1)
+    await page.getByRole('button', { name: 'Calibrate scale' }).click()
+    await page.mouse.click(...at(200, 300))
+    await page.mouse.click(...at(400, 300))
+    await page.getByTestId('calibrate-length').fill('12 m')
+    await page.getByTestId('calibrate-apply').click()
+    await expect.poll(() => page.getByTestId('save-state').getAttribute('data-state'), { timeout: 15_000 }).toBe('saved')
+    const saved = await page.evaluate(async (floorId) => (await fetch(`/api/floors/${floorId}`)).json(), id)
+    expect(saved.plan.rooms).toHaveLength(1)
+    expect(saved.plan.rooms[0].polygon).toHaveLength(6)
+    expect(saved.plan.underlay).toMatchObject({ opacity: 0.5 })
+    expect(saved.plan.underlay.metresPerPixel).not.toBe(0.02)
+    await page.keyboard.press('f')
+    await shot(page, 'editor-trace')
+    expect(errors).toEqual([])
+  })
+
   it('shows the demo floor with its rooms, items and no problems', async () => {
     const { page, errors } = await signedInPage()
     await page.goto(`${server.url}/floors/${demoFloorId}`)

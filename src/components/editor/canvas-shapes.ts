@@ -58,7 +58,7 @@ export function roomShapes(ctx: ShapeContext) {
     const widthPx = (Math.max(...xs) - Math.min(...xs)) * ctx.vp.view.scale
     return {
       id: room.id,
-      outline: { points, closed: true, fill: ROOM_FILL[room.kind], lineJoin: 'miter' as const, ...strokeFor(ctx, room.id, EDITOR_COLOURS.wall) },
+      outline: { points, closed: true, fill: ROOM_FILL[room.kind], lineJoin: 'miter' as const, opacity: ctx.plan.underlay ? 0.72 : 1, ...strokeFor(ctx, room.id, EDITOR_COLOURS.wall) },
       label: { x: lx + 6, y: ly + 6, width: Math.max(40, widthPx - 12), wrap: 'none', ellipsis: true, text: room.name, fontSize: 13, fontStyle: 'bold',
         fontFamily: 'Atkinson Hyperlegible, sans-serif', fill: EDITOR_COLOURS.label, listening: false },
     }
