@@ -16,7 +16,7 @@ export const DEMO_SCENARIO: ScenarioConfig = {
   outputIntervalS: 15,
   ventilationState: 'normal',
   proppedOpeningIds: [],
-  cellM: 0.4,
+  cellM: 0.25,
   layers: 6,
 }
 

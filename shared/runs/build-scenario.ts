@@ -43,7 +43,10 @@ export function buildRunScenario(plan: Plan, ceilingM: number, config: ScenarioC
     return { ok: false, fields }
   }
   const s: ScenarioInput = structuredClone(exported.scenario)
-  const notes = [...exported.notes]
+  const notes: string[] = []
+  const others = plan.sources.filter((p) => !config.sourceIds.includes(p.id)).length
+  if (others) notes.push(`${others} other source(s) on the floor are assumed intact`)
+  if (chosen.some((c) => c!.kind === 'line')) notes.push(exported.notes.find((n) => /line/i.test(n)) ?? 'Gas lines are modelled as a large reservoir at the line pressure')
   const only = new Set(config.sourceIds)
   s.sources = s.sources.filter((src) => only.has(src.id))
 

@@ -93,7 +93,12 @@ export function scaleRange(limits: readonly LimitLine[], peak: Float32Array | Ar
 }
 
 export interface IsolineRing { points: [number, number][] }
-export interface Isoline { key: string; label: string; ppm: number; rings: IsolineRing[]; labelAt: [number, number] | null }
+export interface Isoline {
+  key: string; label: string; ppm: number; rings: IsolineRing[]
+  /** Preferred label anchor (northernmost ring point), then other spots along the longest ring to avoid overlaps. */
+  labelAt: [number, number] | null
+  labelCandidates: [number, number][]
+}
 
 /**
  * Isolines (d3-contour) of one plane at each limit, in plan metres. Non-air cells (NaN) count as zero.
@@ -112,7 +117,10 @@ export function isolines(meta: Pick<RunFieldsMeta, 'nx' | 'ny' | 'cellM' | 'orig
     }
     let labelAt: [number, number] | null = null
     for (const r of rings) for (const p of r.points) if (!labelAt || p[1] > labelAt[1]) labelAt = p
-    return { key: l.key, label: l.label, ppm: l.ppm, rings, labelAt }
+    const longest = rings.reduce<IsolineRing | null>((a, r) => (!a || r.points.length > a.points.length ? r : a), null)
+    const n = longest?.points.length ?? 0
+    const labelCandidates = [...(labelAt ? [labelAt] : []), ...Array.from({ length: Math.min(12, n) }, (_, k) => longest!.points[Math.floor((k * n) / Math.min(12, n))]!)]
+    return { key: l.key, label: l.label, ppm: l.ppm, rings, labelAt, labelCandidates }
   }).filter((i) => i.rings.length > 0)
 }
 
