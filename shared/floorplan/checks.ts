@@ -173,14 +173,14 @@ function checkGases(plan: Plan, ctx: CheckContext, out: PlanProblem[]): void {
     }
   })
   if (plan.sources.length === 0) {
-    out.push({ code: 'no_sources', severity: 'warning', path: 'sources', elementIds: [],
-      message: 'No gas source placed: there is nothing to simulate yet' })
+    out.push({ code: 'no_sources', severity: 'error', path: 'sources', elementIds: [],
+      message: 'Place at least one gas source: there is nothing to simulate yet' })
   }
 }
 
 /**
- * Check a plan as you draw. Errors make the plan unusable as engine input (overlapping rooms,
- * crossing outlines, doors off the walls, items outside every room, unknown gases); warnings are
+ * Check a plan as you draw. Errors make the plan unusable as engine input (no room or no source,
+ * overlapping rooms, crossing outlines, doors off the walls, items outside every room, unknown gases); warnings are
  * shown but do not block. The server runs the same function, so both sides agree.
  */
 export function checkPlan(plan: Plan, ctx: CheckContext): PlanProblem[] {

@@ -83,9 +83,8 @@ export function planToScenario(plan: Plan, options: ExportOptions): ExportResult
   const problems = checkPlan(plan, options)
   const gasId = options.gasId ?? plan.sources[0]?.gasId
   const sources = plan.sources.filter((s) => s.gasId === gasId)
-  if (sources.length === 0) {
-    problems.push({ code: 'no_sources', severity: 'error', path: 'sources', elementIds: [],
-      message: gasId ? `No source releases ${gasId}` : 'Place at least one gas source' })
+  if (sources.length === 0 && plan.sources.length > 0) {
+    problems.push({ code: 'no_sources', severity: 'error', path: 'sources', elementIds: [], message: `No source releases ${gasId}` })
   }
   if (!isPlanValid(problems)) return { ok: false, problems: problems.filter((p) => p.severity === 'error') }
 

@@ -101,7 +101,7 @@ describe('floor-plan editor', () => {
     const [a, b] = saved.plan.rooms
     expect(a.polygon[1][0]).toBe(b.polygon[0][0])
     // The editor shows them again: the floor summary counts them, and select-all picks all four.
-    await expect.poll(() => page.getByTestId('property-panel').textContent()).toContain('2 rooms · 1 openings · 1 sources')
+    await expect.poll(() => page.getByTestId('property-panel').textContent()).toContain('2 rooms · 1 opening · 1 source')
     await page.getByTestId('editor-canvas').click({ position: { x: 5, y: 5 } })
     await page.keyboard.press('Control+a')
     await expect.poll(() => page.getByTestId('property-panel').textContent()).toContain('4 items selected')

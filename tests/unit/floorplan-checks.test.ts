@@ -130,12 +130,13 @@ describe('checkPlan', () => {
     expect(checkPlan(plan, ctx).find((p) => p.code === 'above_ceiling')!.path).toBe('sources.0.releaseHeightM')
   })
 
-  it('calls an empty plan invalid and a plan without sources only a warning', () => {
+  it('calls an empty plan, and a plan without sources, invalid engine input', () => {
     const problems = checkPlan(Plan.parse({ rooms: [], openings: [], sources: [], detectors: [], exhausts: [], workstations: [] }), ctx)
     expect(problems.map((p) => p.code)).toEqual(['no_rooms', 'no_sources'])
     expect(isPlanValid(problems)).toBe(false)
     const noSources = twoRoomPlan()
     noSources.sources = []
-    expect(isPlanValid(checkPlan(noSources, ctx))).toBe(true)
+    expect(checkPlan(noSources, ctx).map((p) => [p.code, p.severity])).toEqual([['no_sources', 'error']])
+    expect(isPlanValid(checkPlan(noSources, ctx))).toBe(false)
   })
 })
