@@ -26,20 +26,24 @@ async function main() {
   const jobs = await JobQueue.start(url)
   const concurrency = Math.max(1, Number(process.env.WORKERS ?? 1) || 1)
   const workers = await startRunWorkers(handle.db, jobs, { concurrency, name: `worker ${process.pid}` })
-  console.log(`[worker] ${workers.holderPrefix} working the engine-runs queue with ${concurrency} thread(s)`)
-
   let closing = false
   const stop = async (signal: string) => {
     if (closing) return
     closing = true
     console.log(`[worker] ${signal}: finishing the current run, then exiting`)
-    await workers.stop()
-    await jobs.stop()
-    await handle.close()
+    try {
+      await workers.stop()
+      await jobs.stop()
+      await handle.close()
+    } catch (e) {
+      console.error('[worker] error while stopping:', e instanceof Error ? e.message : e)
+    }
     process.exit(0)
   }
   process.on('SIGTERM', () => void stop('SIGTERM'))
   process.on('SIGINT', () => void stop('SIGINT'))
+  // Announced only once the signal handlers are in place, so a supervisor may stop us right after.
+  console.log(`[worker] ${workers.holderPrefix} working the engine-runs queue with ${concurrency} thread(s)`)
 }
 
 main().catch((e) => {
