@@ -174,6 +174,21 @@ describe('floor-plan editor', () => {
     await page.goto(`${server.url}/floors/${demoFloorId}`)
     await expect.poll(() => page.getByTestId('problem-list').textContent()).toContain('No problems')
     await shot(page, 'editor-demo-floor')
+
+    // In imperial units, from the element list: the NH3 cabinet's fields read in psi, lb, in.
+    await page.evaluate(async () => {
+      const token = document.cookie.split('; ').find((c) => c.startsWith('dw_csrf='))!.slice('dw_csrf='.length)
+      await fetch('/api/auth/preferences', { method: 'PATCH', headers: { 'content-type': 'application/json', 'x-csrf-token': decodeURIComponent(token) },
+        body: JSON.stringify({ unitSystem: 'imperial' }) })
+    })
+    await page.reload()
+    await page.getByTestId('element-list').getByText(/^Elements/).click()
+    await page.getByTestId('element-nh3-cabinet').click()
+    await expect.poll(() => page.getByTestId('property-panel').textContent()).toContain('Gas source')
+    await expect.poll(() => page.getByTestId('prop-pressure').inputValue()).toBe(String(Number((7.9e5 / 6894.757293168).toPrecision(5))))
+    await page.getByTestId('editor-canvas').hover({ position: { x: 200, y: 200 } })
+    await expect.poll(() => page.getByTestId('cursor-coords').textContent()).toMatch(/ft/)
+    await shot(page, 'editor-demo-imperial')
     await page.goto(`${server.url}/floors`)
     await expect.poll(() => page.getByText('E2E test building').count()).toBeGreaterThan(0)
     await shot(page, 'floor-list')
