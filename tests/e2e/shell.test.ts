@@ -3,6 +3,8 @@ import { mkdirSync } from 'node:fs'
 import path from 'node:path'
 import type { Browser, BrowserContext, Page } from 'playwright-core'
 import { DEMO_ACCOUNTS } from '../../server/seed/demo-accounts'
+import { findUserByEmail, insertUser } from '../../server/repositories/users.repo'
+import { hashPassword } from '../../server/services/passwords'
 import { ARTIFACTS, launchBrowser } from '../support/browser'
 import { startTestServer } from '../support/test-server'
 
@@ -150,7 +152,10 @@ describe('client shell', () => {
   })
 
   it('a password reset e-mail shows in the outbox, and its link lets the person choose a new password', async () => {
-    const manager = account('lab_manager')
+    // A person of its own, so the demo accounts keep their passwords for the other browser tests.
+    const manager = { email: `forgetful.${Date.now()}@calder-ridge.example` }
+    const orgId = (await findUserByEmail(server.rt.ctx.db, account('admin').email))!.org_id
+    await insertUser(server.rt.ctx.db, { orgId, email: manager.email, name: 'Forgetful Lab Manager', role: 'lab_manager', status: 'active', passwordHash: await hashPassword('an-old-password-1', server.rt.ctx.config.argon2) })
     const visitor = await openPage(LAPTOP)
     await visitor.page.goto(`${server.url}/sign-in`)
     await visitor.page.getByRole('link', { name: 'Forgot password?' }).click()
