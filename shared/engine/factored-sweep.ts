@@ -13,8 +13,12 @@ export interface SweepFactor {
   inner: number
 }
 
-/** Elimination coefficients of (I + dt·A) for one direction (see implicitSweep for the matrix). */
-export function factorSweep(fwd: Float64Array, bwd: Float64Array, dt: number, outer: number, n: number, inner: number, diagExtra: Float64Array | null, into?: SweepFactor): SweepFactor {
+/**
+ * Elimination coefficients of (I + dt·A + extraDt·diag(diagExtra)) for one direction. Row p reads
+ * (1 + dt(fwd[p] + bwd[p−s]) + extraDt·diagExtra[p]) x_p − dt·fwd[p−s] x_{p−s} − dt·bwd[p] x_{p+s}: an
+ * M-matrix whose columns sum to 1 + extraDt·diagExtra, so solves are stable and conserve mass.
+ */
+export function factorSweep(fwd: Float64Array, bwd: Float64Array, dt: number, outer: number, n: number, inner: number, diagExtra: Float64Array | null, into?: SweepFactor, extraDt = dt): SweepFactor {
   const size = outer * n * inner
   const f = into ?? { a: new Float64Array(size), b: new Float64Array(size), u: new Float64Array(size), outer, n, inner }
   const { a, b, u } = f
@@ -23,7 +27,7 @@ export function factorSweep(fwd: Float64Array, bwd: Float64Array, dt: number, ou
     const base = o * block
     for (let q = 0; q < inner; q++) {
       const p = base + q
-      const inv = 1 / (1 + dt * fwd[p]! + (diagExtra !== null ? dt * diagExtra[p]! : 0))
+      const inv = 1 / (1 + dt * fwd[p]! + (diagExtra !== null ? extraDt * diagExtra[p]! : 0))
       a[p] = inv
       b[p] = 0
       u[p] = dt * bwd[p]! * inv
@@ -33,7 +37,7 @@ export function factorSweep(fwd: Float64Array, bwd: Float64Array, dt: number, ou
       for (let q = 0; q < inner; q++) {
         const p = row + q, pm = p - inner
         const lo = dt * fwd[pm]!
-        const diag = 1 + dt * (fwd[p]! + bwd[pm]! + (diagExtra !== null ? diagExtra[p]! : 0))
+        const diag = 1 + dt * (fwd[p]! + bwd[pm]!) + (diagExtra !== null ? extraDt * diagExtra[p]! : 0)
         const inv = 1 / (diag - lo * u[pm]!)
         a[p] = inv
         b[p] = lo * inv

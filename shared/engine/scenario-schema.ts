@@ -113,10 +113,12 @@ export const GasRefSchema = z.union([z.object({ id: z.string().min(1) }).strict(
 export const NumericsSchema = z.object({
   /** Fixed time step, s (disables the accuracy control). */
   time_step_s: pos(3600).optional(),
-  /** Target local error per step of the accuracy control (relative). @default 0.002 */
-  tolerance: finite.min(1e-6).max(0.5).default(0.002),
+  /** Target local error per step of the accuracy control (relative). @default 0.0005 */
+  tolerance: finite.min(1e-6).max(0.5).default(0.0005),
   /** Largest time step allowed, s. @default 60 */
   max_time_step_s: pos(3600).default(60),
+  /** Implicitness of the transport terms: 1 = backward Euler, 0.5 = Crank-Nicolson (sinks stay backward Euler). @default 0.5 */
+  theta: finite.min(0.5).max(1).default(0.5),
   /** First step after a release event, s. @default 0.5 */
   initial_time_step_s: pos(600).default(0.5),
 }).strict()
@@ -132,14 +134,14 @@ export const ScenarioSchema = z.object({
   openings: z.array(OpeningSchema).max(5000).default([]),
   local_exhausts: z.array(LocalExhaustSchema).max(1000).default([]),
   gas: GasRefSchema,
-  effective_diffusivity_m2_s: pos(1).optional(),
+  effective_diffusivity_m2_s: pos(100).optional(),
   sources: z.array(SourceSchema).min(1).max(1000),
   probes: z.array(ProbeSchema).max(1000).default([]),
   /** Extra thresholds for the arrival fronts, ppm. */
   thresholds_ppm: z.array(pos(1e6)).max(20).default([]),
   /** Height of the breathing-zone snapshot and of the fronts, m. @default 1.5 */
   breathing_height_m: nonNeg(100).default(1.5),
-  numerics: NumericsSchema.default({ tolerance: 0.002, max_time_step_s: 60, initial_time_step_s: 0.5 }),
+  numerics: NumericsSchema.default({ tolerance: 0.0005, max_time_step_s: 60, initial_time_step_s: 0.5, theta: 0.5 }),
 }).strict()
 
 /** A scenario file as written (before defaults). */

@@ -222,21 +222,28 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const rhs = new Float64Array(n)
   let clipped = 0
 
-  /** Removal by each mechanism at rate × field × dt (field = new values for the implicit step, old for FTCS). */
-  const accountSinks = (f: Float64Array, dt: number) => {
+  /** Weight of the new value in a cell's sink term: Crank-Nicolson where k·dt ≤ 1, backward Euler
+   * where the sink is stiff (a strong exhaust), so it can never overshoot. */
+  const sinkTheta = (k: number, dt: number) => (k * dt <= 1 ? 0.5 : 1)
+  /**
+   * Removal by each mechanism over a step: rate × dt × ((1 − θ) C_old + θ C_new), exactly what the
+   * step removed (θ = 0 for the explicit baseline, `d` = ΔC, null for explicit).
+   */
+  const accountSinks = (cOld: Float64Array, d: Float64Array | null, dt: number) => {
     const w = dt * vc
+    const field = (p: number) => (d === null ? cOld[p]! : cOld[p]! + sinkTheta(sink[p]!, dt) * d[p]!)
     for (let pp = 0; pp < nPlan; pp++) {
       const r = m.roomOfPlan[pp]!
       if (r < 0) continue
       const k = m.roomDecay[r]!
       if (k > 0) {
         let col = 0
-        for (let kk = 0; kk < nz; kk++) col += f[pp + nPlan * kk]!
+        for (let kk = 0; kk < nz; kk++) col += field(pp + nPlan * kk)
         removedVent += k * col * w
       }
-      if (m.floorOut[pp]! > 0) returnGas[returnOfRoom[r]!] += m.floorOut[pp]! * f[pp]! * w
+      if (m.floorOut[pp]! > 0) returnGas[returnOfRoom[r]!] += m.floorOut[pp]! * field(pp) * w
     }
-    for (let a = 0; a < m.exhaustCells.length; a++) removedExhaust += m.exhaustRates[a]! * f[m.exhaustCells[a]!]! * w
+    for (let a = 0; a < m.exhaustCells.length; a++) removedExhaust += m.exhaustRates[a]! * field(m.exhaustCells[a]!) * w
   }
   /** Sources and the cleanroom return supply, as volume fractions added over the step (into `target`). */
   const addInputs = (target: Float64Array, dt: number, tNew: number) => {
@@ -257,6 +264,12 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     }
   }
   const out = outgoingRates(m, sink)
+  const theta = s.numerics.theta
+  const sinkScratch = new Float64Array(n)
+  const scaledSink = (h: number) => {
+    for (let p = 0; p < n; p++) sinkScratch[p] = sinkTheta(sink[p]!, h) * h * sink[p]!
+    return sinkScratch
+  }
   const factors = new Map<number, SweepFactor[]>()
   let oddFactor: SweepFactor[] | null = null
   /** Factorisations of the three sweeps for step h; cached per ladder level, recomputed for odd steps. */
@@ -265,9 +278,9 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     if (cached) return cached
     const into = level >= 0 ? undefined : oddFactor ?? undefined
     const f = [
-      factorSweep(m.fwdX, m.bwdX, h, ny * nz, nx, 1, null, into?.[0]),
-      factorSweep(m.fwdY, m.bwdY, h, nz, ny, nx, null, into?.[1]),
-      factorSweep(m.fwdZ, m.bwdZ, h, 1, nz, nPlan, sink, into?.[2]),
+      factorSweep(m.fwdX, m.bwdX, theta * h, ny * nz, nx, 1, null, into?.[0]),
+      factorSweep(m.fwdY, m.bwdY, theta * h, nz, ny, nx, null, into?.[1]),
+      factorSweep(m.fwdZ, m.bwdZ, theta * h, 1, nz, nPlan, scaledSink(h), into?.[2], 1),
     ]
     if (level >= 0) factors.set(level, f)
     else oddFactor = f
@@ -276,15 +289,16 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
 
   const transport = (dt: number, tNew: number, level: number) => {
     if (explicit) {
-      accountSinks(c, dt)
+      accountSinks(c, null, dt)
       applyOperator(m, c, out, rhs, dt)
       addInputs(rhs, dt, tNew)
       return
     }
-    // Delta-form approximate factorisation of backward Euler:
-    //   (I + dt Ax)(I + dt Ay)(I + dt (Az + K)) ΔC = dt (S − (A + K) C)
-    // It keeps the exact discrete steady state, and the sink factor is solved last so that the
-    // removal is exactly dt·K·C(new) and mass closes to round-off.
+    // Delta-form approximate factorisation (Douglas):
+    //   (I + θdt Ax)(I + θdt Ay)(I + θdt Az + dt Θ K) ΔC = dt (S − (A + K) C)
+    // θ = 1/2 (Crank-Nicolson) for transport, Θ per cell for sinks (see sinkTheta). It keeps the exact
+    // discrete steady state, and the sink factor is solved last so that the removal is exactly
+    // dt·K·((1−Θ)C + Θ C_new) and mass closes to round-off.
     applyOperator(m, c, out, rhs, dt)
     addInputs(rhs, dt, tNew)
     const f = factorsFor(dt, level)
@@ -334,6 +348,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     }
     const tNew = t + h
     transport(h, tNew, stepLevel)
+    if (!explicit) accountSinks(c, rhs, h)
     // New field, clipping and the accuracy estimate in one pass. rhs holds ΔC.
     let den = 0, neg = 0
     const ih = 1 / h, ihl = dtLast > 0 ? 1 / dtLast : 0
@@ -351,7 +366,6 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
       for (let p = 0; p < n; p++) c[p] *= f
       clipped += neg * vc
     }
-    if (!explicit) accountSinks(c, h)
     steps++
     if (h < minDt) minDt = h
     if (h > maxDt) maxDt = h
