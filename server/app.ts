@@ -17,6 +17,7 @@ import { sitesRoutes } from './routes/sites.routes'
 import { systemRoutes } from './routes/system.routes'
 import { usersRoutes } from './routes/users.routes'
 import { plansRoutes } from './routes/plans.routes'
+import { drillsRoutes } from './routes/drills.routes'
 import type { ServiceContext } from './services/context'
 
 /** Each feature registers its routes here; order only matters for identical paths. */
@@ -29,6 +30,7 @@ const FEATURES: ((api: ApiRoutes, ctx: ServiceContext) => void)[] = [
   scenariosRoutes,
   runsRoutes,
   plansRoutes,
+  drillsRoutes,
 ]
 
 export interface AppOptions {

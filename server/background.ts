@@ -1,5 +1,6 @@
 import { startRunWorkers } from './jobs/runs-worker'
 import type { Runtime } from './runtime'
+import { startDrillReminders } from './services/drill-notices.service'
 
 /** Background services that run beside HTTP in the server process (job workers, schedulers). */
 export const BACKGROUND: ((rt: Runtime) => Promise<void>)[] = []
@@ -10,6 +11,9 @@ BACKGROUND.push(async (rt) => {
   const workers = await startRunWorkers(rt.ctx.db, rt.ctx.jobs, { concurrency: rt.ctx.config.inProcessWorkers, name: 'in-process' })
   rt.onClose(() => workers.stop())
 })
+
+// Drill reminders (issue 7): a pg-boss tick every minute sends the reminders that are due.
+BACKGROUND.push(startDrillReminders)
 
 export async function startBackground(rt: Runtime) {
   for (const start of BACKGROUND) await start(rt)

@@ -4,9 +4,10 @@ import type {
 import type { FloorTables } from './tables/floors'
 import type { RunTables } from './tables/runs'
 import type { PlanTables } from './tables/plans'
+import type { DrillTables } from './tables/drills'
 
 /** The whole database as Kysely sees it; each feature's tables live in ./tables. */
-export interface Database extends FloorTables, RunTables, PlanTables {
+export interface Database extends FloorTables, RunTables, PlanTables, DrillTables {
   organizations: OrganizationsTable
   users: UsersTable
   auth_tokens: AuthTokensTable
