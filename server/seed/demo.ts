@@ -3,7 +3,8 @@ import type { Db } from '../db/database'
 import { findOrgByName, insertOrg } from '../repositories/orgs.repo'
 import { findUserByEmail, insertUser } from '../repositories/users.repo'
 import { hashPassword } from '../services/passwords'
-import { DEMO_ACCOUNTS, DEMO_ORG_NAME } from './demo-accounts'
+import { DEMO_ACCOUNTS, DEMO_ORG_NAME, DEMO_SITE_NAME } from './demo-accounts'
+import { ensureDemoSite, seedDemoFloor } from './demo-floor'
 import { seedDemoScenario } from '../jobs/demo-scenario'
 
 export interface DemoSeed {
@@ -28,6 +29,12 @@ export async function seedDemo(db: Db, config: Config): Promise<DemoSeed> {
 
 /** Features add their own idempotent demo data (sites, floors, scenarios) here. */
 export const DEMO_STEPS: ((db: Db, seed: DemoSeed) => Promise<void>)[] = []
+
+// Floor editor: the demo site and its floor, with the lab manager and staff member on it.
+DEMO_STEPS.push(async (db, seed) => {
+  const siteId = await ensureDemoSite(db, seed.orgId, DEMO_SITE_NAME)
+  await seedDemoFloor(db, { orgId: seed.orgId, siteId, labManagerIds: [seed.userIds.lab_manager!], staffIds: [seed.userIds.staff!] })
+})
 
 // Runs and results (issue 5): the demo scenario on the demo floor (not run at seed time).
 DEMO_STEPS.push(async (db, seed) => { await seedDemoScenario(db, seed) })

@@ -1,7 +1,7 @@
 import type { Runtime } from '../../server/runtime'
 import { seedDemoScenario } from '../../server/jobs/demo-scenario'
 import { ensureDemoSite, seedDemoFloor } from '../../server/seed/demo-floor'
-import { DEMO_ACCOUNTS } from '../../server/seed/demo-accounts'
+import { DEMO_ACCOUNTS, DEMO_SITE_NAME } from '../../server/seed/demo-accounts'
 import type { ApiAgent } from '../support/test-runtime'
 
 export const acct = (role: string) => DEMO_ACCOUNTS.find((a) => a.role === role)!
@@ -12,7 +12,7 @@ export async function demoFloorAndScenario(rt: Runtime) {
   const people = await db.selectFrom('users').select(['id', 'role', 'org_id']).where('email', 'in', DEMO_ACCOUNTS.map((a) => a.email)).execute()
   const orgId = people[0]!.org_id
   const byRole = (r: string) => people.filter((p) => p.role === r).map((p) => p.id)
-  const siteId = await ensureDemoSite(db, orgId, 'Calder Ridge – Building C')
+  const siteId = await ensureDemoSite(db, orgId, DEMO_SITE_NAME)
   const { floorId } = await seedDemoFloor(db, { orgId, siteId, labManagerIds: byRole('lab_manager'), staffIds: byRole('staff') })
   const scenarioId = (await seedDemoScenario(db, { orgId }))!
   return { orgId, floorId, scenarioId }
