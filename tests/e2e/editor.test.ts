@@ -30,22 +30,23 @@ describe('floor-plan editor', () => {
     const user = (await findUserByEmail(db, officer.email))!
     const siteId = await ensureDemoSite(db, user.org_id, 'E2E test building')
     floorId = (await insertFloor(db, { orgId: user.org_id, siteId, name: 'Drawn in the browser', ceilingHeightM: 3, plan: emptyPlan(), planValid: false, problems: [], userId: user.id })).id
-    demoFloorId = (await seedDemoFloor(db, { orgId: user.org_id, siteId, labManagerIds: [], staffIds: [] })).floorId
+    const manager = (await findUserByEmail(db, DEMO_ACCOUNTS.find((a) => a.role === 'lab_manager')!.email))!
+    demoFloorId = (await seedDemoFloor(db, { orgId: user.org_id, siteId, labManagerIds: [manager.id], staffIds: [] })).floorId
   })
   afterAll(async () => {
     await browser?.close()
     await server?.close()
   })
 
-  async function signedInPage(): Promise<{ page: Page; errors: string[] }> {
+  async function signedInPage(account = officer): Promise<{ page: Page; errors: string[] }> {
     const context = await browser.newContext({ viewport: { width: 1440, height: 860 } })
     const page = await context.newPage()
     const errors: string[] = []
     page.on('pageerror', (e) => errors.push(`pageerror: ${e.message}`))
     page.on('console', (m) => { if (m.type() === 'error' && !/401/.test(m.text())) errors.push(`console: ${m.text()}`) })
     await page.goto(`${server.url}/sign-in`)
-    await page.getByLabel('E-mail address').fill(officer.email)
-    await page.getByLabel('Password', { exact: true }).fill(officer.password)
+    await page.getByLabel('E-mail address').fill(account.email)
+    await page.getByLabel('Password', { exact: true }).fill(account.password)
     await page.getByRole('button', { name: 'Sign in' }).click()
     await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
     return { page, errors }
@@ -192,6 +193,19 @@ describe('floor-plan editor', () => {
     await page.goto(`${server.url}/floors`)
     await expect.poll(() => page.getByText('E2E test building').count()).toBeGreaterThan(0)
     await shot(page, 'floor-list')
+    expect(errors).toEqual([])
+  })
+
+  it('lab managers see the floor they are responsible for, read-only', async () => {
+    const { page, errors } = await signedInPage(DEMO_ACCOUNTS.find((a) => a.role === 'lab_manager')!)
+    await page.goto(`${server.url}/floors/${demoFloorId}`)
+    await expect.poll(() => page.getByText('View only').count()).toBe(1)
+    await expect(page.getByTestId('tool-room-rect').isDisabled()).resolves.toBe(true)
+    expect(await page.getByTestId('save-state').count()).toBe(0)
+    await page.getByTestId('element-list').getByText(/^Elements/).click()
+    await page.getByTestId('element-det-nh3-gr').click()
+    await expect.poll(() => page.getByTestId('property-panel').textContent()).toContain('Gas detector')
+    await shot(page, 'editor-view-only')
     expect(errors).toEqual([])
   })
 })
