@@ -7,7 +7,8 @@ import { ROLES, type Role } from '../schemas/common'
  */
 export const AREA_ROLES = {
   overview: ROLES,
-  floors: ['admin', 'ehs_officer', 'lab_manager'],
+  /** Lab managers and staff see the floors they belong to (the server decides which). */
+  floors: ROLES,
   scenarios: ['admin', 'ehs_officer'],
   /** Lab managers open plans to acknowledge them. */
   plans: ['admin', 'ehs_officer', 'lab_manager'],
