@@ -36,6 +36,7 @@ export const routes: RouteRecordRaw[] = [
       // These two paths are fixed: the server puts them in e-mailed links.
       { path: 'reset-password', name: ROUTE.resetPassword, component: () => import('../pages/ResetPasswordPage.vue'), props: tokenProp, meta: { title: 'Choose a new password' } },
       { path: 'invite', name: ROUTE.acceptInvitation, component: () => import('../pages/AcceptInvitationPage.vue'), props: tokenProp, meta: { title: 'Accept invitation' } },
+      { path: 'drills/confirm', name: 'drill-confirm', component: () => import('../pages/drills/DrillConfirmPage.vue'), props: tokenProp, meta: { title: 'Drill notice' } },
       // Always last: anything unknown.
       { path: ':pathMatch(.*)*', name: ROUTE.notFound, component: () => import('../pages/NotFoundPage.vue'), meta: { title: 'Not found' } },
     ],

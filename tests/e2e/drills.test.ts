@@ -1,0 +1,107 @@
+import { mkdirSync } from 'node:fs'
+import path from 'node:path'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Browser, Page } from 'playwright-core'
+import { ARTIFACTS, launchBrowser } from '../support/browser'
+import { startTestServer } from '../support/test-server'
+import { linkFrom, signIn as apiSignIn, waitForMail } from '../support/test-runtime'
+import { acct, planFixture } from '../api/plans-fixtures'
+
+const LAPTOP = { width: 1366, height: 900 }
+
+async function shot(page: Page, name: string, fullPage = false) {
+  mkdirSync(ARTIFACTS, { recursive: true })
+  await page.screenshot({ path: path.join(ARTIFACTS, `${name}.png`), animations: 'disabled', fullPage })
+}
+async function signIn(page: Page, email: string, password: string) {
+  await page.getByLabel('E-mail address').fill(email)
+  await page.getByLabel('Password', { exact: true }).fill(password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+}
+function watch(page: Page) {
+  const problems: string[] = []
+  page.on('pageerror', (e) => problems.push(`pageerror: ${e.message}`))
+  page.on('console', (m) => { if (m.type() === 'error' && !/401|410/.test(m.text())) problems.push(`console: ${m.text()}`) })
+  return problems
+}
+
+describe('drills in the browser', () => {
+  let server: Awaited<ReturnType<typeof startTestServer>>
+  let browser: Browser
+  let planId: number
+
+  beforeAll(async () => {
+    server = await startTestServer()
+    browser = await launchBrowser()
+    const fx = await planFixture(server.rt)
+    const officer = await apiSignIn(server.rt, acct('ehs_officer').email, acct('ehs_officer').password)
+    planId = (await officer.post('/api/plans').send({ floorId: fx.floorId, runIds: [fx.runId], title: 'Ammonia cylinder plan' }).expect(201)).body.id
+    await officer.post(`/api/plans/${planId}/publish`).send({}).expect(200)
+  })
+  afterAll(async () => {
+    await browser?.close()
+    await server?.close()
+  })
+
+  it('an officer schedules a drill and a staff member confirms receipt from the e-mail link, without signing in', async () => {
+    const ctx1 = await browser.newContext({ viewport: LAPTOP, timezoneId: 'Europe/Berlin' })
+    const page = await ctx1.newPage()
+    const problems = watch(page)
+    await page.goto(`${server.url}/plans/${planId}`)
+    await signIn(page, acct('ehs_officer').email, acct('ehs_officer').password)
+    await page.getByRole('link', { name: 'Schedule a drill' }).click()
+    await page.getByRole('heading', { name: 'Schedule a drill' }).waitFor()
+    await expect.poll(() => page.getByLabel('Title').inputValue()).toBe('Drill: Ammonia cylinder plan')
+    await page.getByLabel('Title').fill('Quarterly NH3 drill <gas room A>')
+    await page.getByLabel('Time', { exact: true }).fill('09:30')
+    await page.getByLabel('Scenario to enact').fill('Detector A alarms low at a simulated ammonia leak in gas room A; the warden runs the evacuation.')
+    await shot(page, 'drills-schedule-1366')
+    await page.getByRole('button', { name: 'Schedule and send invitations' }).click()
+    await page.getByTestId('drill-title').waitFor()
+    await expect.poll(() => page.getByTestId('drill-title').textContent()).toBe('Quarterly NH3 drill <gas room A>')
+    await expect.poll(() => page.getByTestId('drill-roster').textContent()).toContain(acct('staff').name)
+    await expect.poll(async () => (await page.getByText(/09:30 \(Europe\/Berlin\)/).count()) > 0).toBe(true)
+    await shot(page, 'drills-detail-officer-1366')
+
+    // The staff member's invitation, over SMTP, with the receipt link
+    const mail = await waitForMail(server.rt.ctx.db, acct('staff').email, /^Drill invitation: Quarterly NH3 drill/)
+    const link = linkFrom(mail.text_body, '/drills/confirm?token=')
+    expect(new URL(link).origin).toBe(server.url)
+
+    const ctx2 = await browser.newContext({ viewport: { width: 820, height: 900 } })
+    const sp = await ctx2.newPage()
+    const p2 = watch(sp)
+    await sp.goto(link)
+    await expect.poll(() => sp.getByTestId('confirm-title').textContent()).toBe('Quarterly NH3 drill <gas room A>')
+    await shot(sp, 'drills-confirm-page-820')
+    await sp.getByRole('button', { name: 'Confirm I received this notice' }).click()
+    await sp.getByTestId('confirm-done').waitFor()
+    await shot(sp, 'drills-confirm-done-820')
+    // The link works once
+    await sp.goto(link)
+    await expect.poll(() => sp.getByTestId('confirm-problem').textContent()).toMatch(/already been used/)
+    await shot(sp, 'drills-confirm-used-820')
+    expect(p2).toEqual([])
+    await ctx2.close()
+
+    await page.reload()
+    await expect.poll(() => page.getByTestId('drill-roster').textContent()).toMatch(/Confirmed/)
+    await page.getByTestId('drill-roster').scrollIntoViewIfNeeded()
+    await shot(page, 'drills-roster-confirmed-1366')
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Drills' }).click()
+    await page.getByTestId('drills-upcoming').waitFor()
+    await expect.poll(() => page.getByTestId('drills-upcoming').textContent()).toContain('1 / 1')
+    await shot(page, 'drills-list-officer-1366')
+    expect(problems).toEqual([])
+    await ctx1.close()
+
+    // Staff see their own drill in the list
+    const ctx3 = await browser.newContext({ viewport: LAPTOP })
+    const st = await ctx3.newPage()
+    await st.goto(`${server.url}/drills`)
+    await signIn(st, acct('staff').email, acct('staff').password)
+    await expect.poll(() => st.getByTestId('drills-upcoming').textContent()).toContain('Quarterly NH3 drill <gas room A>')
+    await shot(st, 'drills-list-staff-1366')
+    await ctx3.close()
+  })
+})
