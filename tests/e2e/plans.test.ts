@@ -82,7 +82,7 @@ describe('response plans in the browser', () => {
     await mp.goto(`${server.url}/plans`)
     await signIn(mp, acct('lab_manager').email, acct('lab_manager').password)
     await mp.getByTestId('my-pending').waitFor()
-    await expect.poll(() => mp.getByTestId('ack-totals').textContent()).toMatch(/2\s*Waiting/)
+    await expect.poll(() => mp.getByTestId('ack-totals').textContent()).toMatch(/2\s*Lab-manager acknowledgments waiting/)
     await shot(mp, 'plans-list-manager-1366')
     await mp.getByTestId('my-pending').getByRole('link', { name: 'Ammonia cylinder <leak> plan' }).click()
     await mp.getByTestId('ack-request').waitFor()
