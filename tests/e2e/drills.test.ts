@@ -6,6 +6,7 @@ import { ARTIFACTS, launchBrowser } from '../support/browser'
 import { startTestServer } from '../support/test-server'
 import { linkFrom, signIn as apiSignIn, waitForMail } from '../support/test-runtime'
 import { acct, planFixture } from '../api/plans-fixtures'
+import { drillClock } from '../../server/services/drill-notices.service'
 
 const LAPTOP = { width: 1366, height: 900 }
 
@@ -88,9 +89,38 @@ describe('drills in the browser', () => {
     await expect.poll(() => page.getByTestId('drill-roster').textContent()).toMatch(/Confirmed/)
     await page.getByTestId('drill-roster').scrollIntoViewIfNeeded()
     await shot(page, 'drills-roster-confirmed-1366')
+
+    // After the drill: record the measured times and a finding (the server's drill clock moves past the start)
+    const drillId = Number(new URL(page.url()).pathname.split('/').pop())
+    const detail = (await (await apiSignIn(server.rt, acct('ehs_officer').email, acct('ehs_officer').password)).get(`/api/drills/${drillId}`).expect(200)).body
+    const realNow = drillClock.now
+    drillClock.now = () => new Date(new Date(detail.startsAt).getTime() + 3600_000)
+    try {
+      await page.getByRole('checkbox', { name: 'Step 1 done' }).click()
+      await page.getByLabel('Step 1 time in seconds').fill('0')
+      await page.getByRole('checkbox', { name: 'Step 2 done' }).click()
+      await page.getByLabel('Step 2 time in seconds').fill('65')
+      await page.getByLabel('Alarm to evacuation complete').fill('65')
+      await page.getByLabel('Alarm to source isolated').fill('25')
+      await page.getByLabel('Observations (hot wash)').fill('Door A approach blocked by a trolley.')
+      await page.getByRole('button', { name: 'Save the record' }).click()
+      await expect.poll(() => page.getByTestId('drill-status').textContent()).toBe('completed')
+      await expect.poll(() => page.getByTestId('drill-comparison').textContent()).toMatch(/\+15 s\s*Slower than predicted/)
+      await page.getByLabel('Finding', { exact: true }).fill('Evacuation of gas room A 15 s slower than predicted')
+      await page.getByLabel('Corrective action').fill('Keep the Door A approach clear; weekly walk-through')
+      await page.getByLabel('Owner').click()
+      await page.getByRole('option', { name: acct('lab_manager').name }).click()
+      await page.getByLabel('Due date').fill('2027-01-15')
+      await page.getByRole('button', { name: 'Add the finding' }).click()
+      await expect.poll(() => page.getByTestId('drill-findings').textContent()).toContain('weekly walk-through')
+      await shot(page, 'drills-recorded-full', true)
+    } finally {
+      drillClock.now = realNow
+    }
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Drills' }).click()
     await page.getByTestId('drills-upcoming').waitFor()
-    await expect.poll(() => page.getByTestId('drills-upcoming').textContent()).toContain('1 / 1')
+    await expect.poll(() => page.getByTestId('drills-history').textContent()).toContain('completed')
+    await expect.poll(() => page.getByTestId('open-actions').textContent()).toContain('weekly walk-through')
     await shot(page, 'drills-list-officer-1366')
     expect(problems).toEqual([])
     await ctx1.close()
@@ -100,7 +130,7 @@ describe('drills in the browser', () => {
     const st = await ctx3.newPage()
     await st.goto(`${server.url}/drills`)
     await signIn(st, acct('staff').email, acct('staff').password)
-    await expect.poll(() => st.getByTestId('drills-upcoming').textContent()).toContain('Quarterly NH3 drill <gas room A>')
+    await expect.poll(() => st.getByTestId('drills-history').textContent()).toContain('Quarterly NH3 drill <gas room A>')
     await shot(st, 'drills-list-staff-1366')
     await ctx3.close()
   })
