@@ -66,7 +66,7 @@ describe('response plans in the browser', () => {
     await page.getByLabel('Assembly point').fill('Car park P3, north-west corner')
     await page.getByLabel('Person for Incident lead').fill('Tomasz Oyelaran')
     await shot(page, 'plans-editing-1366')
-    await page.getByRole('button', { name: 'Save draft of version 1' }).click()
+    await page.getByTestId('plan-save-sticky').click()
     await expect.poll(() => page.getByText('Assembly point: Car park P3').isVisible()).toBe(true)
     await page.getByRole('button', { name: 'Publish version 1' }).click()
     await page.getByRole('dialog').getByRole('button', { name: 'Publish' }).click()
