@@ -35,9 +35,10 @@ export const DETECTOR_LAG_S = 30
 /** Limit keys that mean "get out now": immediately dangerous, a quarter of the LEL, oxygen-deficient air. */
 export const CRITICAL_KEYS = ['idlh', 'lel_25', 'o2_19_5'] as const
 const CRITICAL = new Set<string>(CRITICAL_KEYS)
-const ALARM_KEYS = new Set(['alarm_low', 'alarm_high'])
-/** Exposure limits (TWA, STEL, ceiling ...): every limit key that is not critical, not an alarm and not 10 % LEL. */
-export const isExposureKey = (key: string) => !CRITICAL.has(key) && !ALARM_KEYS.has(key) && key !== 'lel_10'
+/** Detector set points tracked by the run ("alarm_<ppm>", "setpoint_<ppm>"): not limits. */
+export const isSetPointKey = (key: string) => /^(alarm|setpoint)_/.test(key)
+/** Exposure limits: NIOSH REL and OSHA PEL lines (TWA, STEL, ceiling). Set points, LEL fractions and oxygen levels are not. */
+export const isExposureKey = (key: string) => key === 'ceiling' || /^(rel|pel)_/.test(key)
 export const isCriticalKey = (key: string) => CRITICAL.has(key)
 
 const CRITICAL_LABEL: Record<string, string> = { idlh: 'IDLH', lel_25: '25 % LEL', o2_19_5: 'oxygen below 19.5 %' }
@@ -104,7 +105,7 @@ export function hazardItems(runs: PlanRunInput[], plan: Plan): HazardItem[] {
         name: src.name, roomName: roomName(src.roomId), inventoryM3: src.inventoryM3, releasedM3: src.releasedM3, description: src.description,
       })),
       release: `${VENTILATION_STATE_LABELS[s.ventilationState]}; release followed for ${formatSeconds(s.durationS)}; ${s.massBalance.releasedM3.toPrecision(3)} m³ of gas released in the run.`,
-      limits: s.limits.filter((l) => !ALARM_KEYS.has(l.key)).map((l) => ({ key: l.key, label: l.label, ppm: l.ppm, source: l.source })),
+      limits: s.limits.filter((l) => !isSetPointKey(l.key)).map((l) => ({ key: l.key, label: l.label, ppm: l.ppm, source: l.source })),
       from: from(run, 'R1', 'run', null, null),
     }
   })
@@ -133,7 +134,7 @@ export function timelineRows(runs: PlanRunInput[]): TimelineRow[] {
       }
     }
     for (const w of s.receptors.filter((r) => r.kind === 'workstation')) {
-      for (const l of s.limits.filter((x) => !ALARM_KEYS.has(x.key))) {
+      for (const l of s.limits.filter((x) => !isSetPointKey(x.key))) {
         const t = w.firstExceedS[l.key] ?? null
         rows.push({ id: `tl-${run.id}-${w.id}-${l.key}`, kind: 'receptor_limit', event: `${l.label} exceeded`, where: w.name, limitKey: l.key,
           timeS: t, from: from(run, 'R2b', 'receptor', w.id, w.name) })

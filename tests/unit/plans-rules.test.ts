@@ -20,7 +20,7 @@ describe('plan rules on the hand-computed case', () => {
     const h = plan.hazard.items[0]!
     expect(h.gasName).toBe('Ammonia')
     expect(h.sources[0]).toMatchObject({ name: 'NH3 cylinder', roomName: 'Gas room A', inventoryM3: 28.7 })
-    expect(h.limits.map((l) => l.key)).toEqual(['rel_twa', 'rel_stel', 'idlh'])
+    expect(h.limits.map((l) => l.key)).toEqual(['rel_twa', 'rel_stel', 'idlh', 'lel_100'])
     expect(h.limits[2]!.source).toBe('NIOSH IDLH')
     expect(h.properties).toContain('lighter than or close to air')
     expect(h.from).toMatchObject({ runId: 7, rule: 'R1' })
@@ -33,6 +33,8 @@ describe('plan rules on the hand-computed case', () => {
     expect(row('tl-7-ws-a-rel_twa')!.timeS).toBe(100)
     expect(row('tl-7-ws-a-idlh')!.timeS).toBe(150)
     expect(row('tl-7-ws-b-idlh')!.timeS).toBeNull()
+    // Detector set points tracked by the run are not limits: no rows, no effect on evacuation or isolation
+    expect(plan.timeline.rows.some((r) => /alarm_12_5|setpoint_40/.test(r.id))).toBe(false)
     expect(row('tl-7-A-idlh')!.timeS).toBe(120)
     expect(row('tl-7-B-idlh')!.timeS).toBeNull()
     // Bench A: critical at 120 s (room A IDLH, earlier than the bench's own 150 s), alarm heard at 40 + 30 = 70 s.
