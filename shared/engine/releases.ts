@@ -122,13 +122,19 @@ function cylinderHistory(r: Extract<Release, { kind: 'cylinder' }>, gas: Orifice
     }
   }
   const tArr = Float64Array.from(ts), pArr = Float64Array.from(ps)
+  // dP/dt at every node from the orifice equation: cubic Hermite interpolation between nodes keeps the
+  // release rate continuous (a piecewise-linear P(t) would make the rate jump at every node).
+  const dArr = Float64Array.from(pArr, (pp) => -orificeMassFlow(gas, cdA, pp, T, pa) / kgPerPa)
   const gasMassAt = (tg: number): number => {
     if (tg <= 0) return 0
     const last = tArr.length - 1
     if (tg >= tArr[last]!) return (pGas0 - pArr[last]!) * kgPerPa
+    if (pArr[0]! > pChoke && tg <= tau * Math.log(pArr[0]! / pChoke)) return pGas0 * (1 - Math.exp(-tg / tau)) * kgPerPa
     const i = binarySearch(tArr, tg)
-    const f = (tg - tArr[i]!) / (tArr[i + 1]! - tArr[i]!)
-    return (pGas0 - (pArr[i]! + f * (pArr[i + 1]! - pArr[i]!))) * kgPerPa
+    const hh = tArr[i + 1]! - tArr[i]!
+    const u = (tg - tArr[i]!) / hh, u2 = u * u, u3 = u2 * u
+    const p = (2 * u3 - 3 * u2 + 1) * pArr[i]! + (u3 - 2 * u2 + u) * hh * dArr[i]! + (-2 * u3 + 3 * u2) * pArr[i + 1]! + (u3 - u2) * hh * dArr[i + 1]!
+    return (pGas0 - Math.max(p, pa)) * kgPerPa
   }
   const massAt = (t: number): number => {
     const tl = t - r.start_s

@@ -2,6 +2,7 @@ import type { Gas } from '../gases/gas-schema'
 import { SimulationCancelled } from './errors'
 import { applyOperator, explicitStableStep, outgoingRates } from './operator'
 import { factorSweep, solveFactored, type SweepFactor } from './factored-sweep'
+import { accountSinks, finishStep, scaleField, snapshotPlan, type RateWeights } from './step-kernels'
 import { buildModel, type Model } from './model'
 import type { Scenario } from './scenario-schema'
 import { thresholdsFor, type Threshold } from './thresholds'
@@ -89,6 +90,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const explicit = opts.solver === 'explicit-baseline'
   const c = new Float64Array(n)
   const dPrev = new Float64Array(n)
+  const dPrev2 = new Float64Array(n)
 
   const duration = s.duration_s, interval = s.output_interval_s
   const nOut = Math.floor(duration / interval + 1e-9) + 1
@@ -144,17 +146,16 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   let outIndex = 0
   const integralPrev = new Float64Array(nPlan)
   /** Record output `outIndex` at time t, a fraction θ of the way through the last step (linear in time). */
-  const recordOutput = (t: number, theta: number) => {
+  /**
+   * Record output `outIndex` at time t, a fraction θ through the last step of length h: quadratic
+   * interpolation through the last three states (linear when h1, the step before, is unknown).
+   */
+  const recordOutput = (t: number, theta: number, h: number, h1: number) => {
     const bh = breathing[outIndex]!, cm = columnMax[outIndex]!
-    const back = 1 - theta
-    const at = (p: number) => { const v = c[p]! - back * dPrev[p]!; return v > 0 ? v : 0 }
-    for (let pp = 0; pp < nPlan; pp++) {
-      if (m.roomOfPlan[pp]! < 0) { bh[pp] = NaN; cm[pp] = NaN; continue }
-      bh[pp] = (at(pp + nPlan * k0) * (1 - wb) + at(pp + nPlan * k1) * wb) * 1e6
-      let mx = 0
-      for (let k = 0; k < nz; k++) { const v = at(pp + nPlan * k); if (v > mx) mx = v }
-      cm[pp] = mx * 1e6
-    }
+    const g = h1 > 0 ? (theta * h) / (h + h1) : 0
+    const alpha = (1 - theta) * (1 + g), beta = h1 > 0 ? ((1 - theta) * g * h) / h1 : 0
+    const at = (p: number) => { const v = c[p]! - alpha * dPrev[p]! + beta * dPrev2[p]!; return v > 0 ? v : 0 }
+    snapshotPlan(c, dPrev, dPrev2, alpha, beta, m.roomOfPlan, nPlan, nz, k0, k1, wb, bh, cm)
     for (let q = 0; q < m.probes.length; q++) {
       const pr = m.probes[q]!
       let v = 0
@@ -222,29 +223,16 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const rhs = new Float64Array(n)
   let clipped = 0
 
-  /** Weight of the new value in a cell's sink term: Crank-Nicolson where k·dt ≤ 1, backward Euler
-   * where the sink is stiff (a strong exhaust), so it can never overshoot. */
-  const sinkTheta = (k: number, dt: number) => (k * dt <= 1 ? 0.5 : 1)
-  /**
-   * Removal by each mechanism over a step: rate × dt × ((1 − θ) C_old + θ C_new), exactly what the
-   * step removed (θ = 0 for the explicit baseline, `d` = ΔC, null for explicit).
-   */
-  const accountSinks = (cOld: Float64Array, d: Float64Array | null, dt: number) => {
-    const w = dt * vc
-    const field = (p: number) => (d === null ? cOld[p]! : cOld[p]! + sinkTheta(sink[p]!, dt) * d[p]!)
-    for (let pp = 0; pp < nPlan; pp++) {
-      const r = m.roomOfPlan[pp]!
-      if (r < 0) continue
-      const k = m.roomDecay[r]!
-      if (k > 0) {
-        let col = 0
-        for (let kk = 0; kk < nz; kk++) col += field(pp + nPlan * kk)
-        removedVent += k * col * w
-      }
-      if (m.floorOut[pp]! > 0) returnGas[returnOfRoom[r]!] += m.floorOut[pp]! * field(pp) * w
-    }
-    for (let a = 0; a < m.exhaustCells.length; a++) removedExhaust += m.exhaustRates[a]! * field(m.exhaustCells[a]!) * w
+  const sinkAcc = new Float64Array(2)
+  const account = (cOld: Float64Array, d: Float64Array | null, dt: number) => {
+    sinkAcc[0] = 0; sinkAcc[1] = 0
+    accountSinks(cOld, d, dt, vc, nPlan, nz, m.roomOfPlan, m.roomDecay, m.floorOut, sink, m.exhaustCells, m.exhaustRates, returnOfRoom, returnGas, sinkAcc)
+    removedVent += sinkAcc[0]!
+    removedExhaust += sinkAcc[1]!
   }
+  /** Weight of the new value in a cell's sink term: Crank-Nicolson where k·dt ≤ 1, backward Euler
+   * where the sink is stiff (a strong exhaust), so it can never overshoot (same rule in accountSinks). */
+  const sinkTheta = (k: number, dt: number) => (k * dt <= 1 ? 0.5 : 1)
   /** Sources and the cleanroom return supply, as volume fractions added over the step (into `target`). */
   const addInputs = (target: Float64Array, dt: number, tNew: number) => {
     for (let q = 0; q < m.sources.length; q++) {
@@ -265,6 +253,20 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   }
   const out = outgoingRates(m, sink)
   const theta = s.numerics.theta
+  // Implicit weights per face: θ for diffusive faces, 1 (backward Euler) for faces that carry air
+  // (downflow, transfer air), where Crank-Nicolson would ring at Courant numbers above 1.
+  const weighted = (fwd: Float64Array, bwd: Float64Array) => {
+    const f = new Float64Array(n), b = new Float64Array(n)
+    for (let p = 0; p < n; p++) {
+      const w = fwd[p] === bwd[p] ? theta : 1
+      f[p] = w * fwd[p]!
+      b[p] = w * bwd[p]!
+    }
+    return { fwd: f, bwd: b }
+  }
+  const wX = explicit ? null! : weighted(m.fwdX, m.bwdX)
+  const wY = explicit ? null! : weighted(m.fwdY, m.bwdY)
+  const wZ = explicit ? null! : weighted(m.fwdZ, m.bwdZ)
   const sinkScratch = new Float64Array(n)
   const scaledSink = (h: number) => {
     for (let p = 0; p < n; p++) sinkScratch[p] = sinkTheta(sink[p]!, h) * h * sink[p]!
@@ -278,9 +280,9 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     if (cached) return cached
     const into = level >= 0 ? undefined : oddFactor ?? undefined
     const f = [
-      factorSweep(m.fwdX, m.bwdX, theta * h, ny * nz, nx, 1, null, into?.[0]),
-      factorSweep(m.fwdY, m.bwdY, theta * h, nz, ny, nx, null, into?.[1]),
-      factorSweep(m.fwdZ, m.bwdZ, theta * h, 1, nz, nPlan, scaledSink(h), into?.[2], 1),
+      factorSweep(wX.fwd, wX.bwd, h, ny * nz, nx, 1, null, into?.[0]),
+      factorSweep(wY.fwd, wY.bwd, h, nz, ny, nx, null, into?.[1]),
+      factorSweep(wZ.fwd, wZ.bwd, h, 1, nz, nPlan, scaledSink(h), into?.[2], 1),
     ]
     if (level >= 0) factors.set(level, f)
     else oddFactor = f
@@ -289,7 +291,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
 
   const transport = (dt: number, tNew: number, level: number) => {
     if (explicit) {
-      accountSinks(c, null, dt)
+      account(c, null, dt)
       applyOperator(m, c, out, rhs, dt)
       addInputs(rhs, dt, tNew)
       return
@@ -311,7 +313,8 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const roomOfCell = new Int16Array(n)
   for (let k = 0; k < nz; k++) roomOfCell.set(m.roomOfPlan, k * nPlan)
   const roomErr = new Float64Array(nRooms), roomMass = new Float64Array(nRooms)
-  const errCell = new Float64Array(n)
+  const rateWeights: RateWeights = { ih: 0, ih1: 0, ih2: 0, w1: 0, w2: 0, w3: 0 }
+  const pair = new Float64Array(2)
   const num = s.numerics
   const fixedDt = explicit ? 0.98 * explicitStableStep(m, sink) : num.time_step_s
   // Step ladder: L0 divides the output interval, levels halve it, so aligned steps land on outputs
@@ -323,7 +326,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const levelFor = (dtWanted: number) => Math.min(MAX_LEVEL, Math.max(0, Math.ceil(Math.log2(L0 / dtWanted) - 1e-9)))
   const initLevel = fixedDt !== undefined ? 0 : levelFor(num.initial_time_step_s)
   let level = initLevel
-  let dtLast = 0, haveHistory = false
+  let dtLast = 0, dtLast2 = 0, histSteps = 0, peakAirborne = 0, hPrevStep = 0
   let t = 0, steps = 0, nextBreak = 0, minDt = Infinity, maxDt = 0
   let lastProgress = -1
 
@@ -331,7 +334,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   for (let pp = 0; pp < nPlan; pp++) if (m.roomOfPlan[pp]! >= 0) bhPrev[pp] = bhAt(pp)
   for (let q = 0; q < m.probes.length; q++) probePrev[q] = probeAt(q)
   observeStep(0, 0)
-  recordOutput(0, 1)
+  recordOutput(0, 1, 0, 0)
 
   while (outIndex < nOut) {
     if (opts.signal?.cancelled) throw new SimulationCancelled()
@@ -347,23 +350,25 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
       h = stepLevel >= 0 ? L0 / 2 ** stepLevel : rem
     }
     const tNew = t + h
+    const hBefore = hPrevStep
     transport(h, tNew, stepLevel)
-    if (!explicit) accountSinks(c, rhs, h)
+    if (!explicit) account(c, rhs, h)
     // New field, clipping and the accuracy estimate in one pass. rhs holds ΔC.
-    let den = 0, neg = 0
-    const ih = 1 / h, ihl = dtLast > 0 ? 1 / dtLast : 0
-    for (let p = 0; p < n; p++) {
-      const d = rhs[p]!
-      const v = c[p]! + d
-      errCell[p] = Math.abs(d * ih - dPrev[p]! * ihl)
-      dPrev[p] = d
-      if (v < 0) { neg -= v; c[p] = 0 } else { c[p] = v; den += v }
+    // Third derivative from three successive step rates (midpoint divided differences): Crank-Nicolson's
+    // local error is about h^3 |C'''| / 12.
+    const h1 = dtLast, h2 = dtLast2
+    let wt: RateWeights | null = null
+    if (fixedDt === undefined && histSteps >= 2) {
+      wt = rateWeights
+      wt.ih = 1 / h; wt.ih1 = 1 / h1; wt.ih2 = 1 / h2
+      wt.w1 = 2 / (h + h1); wt.w2 = 2 / (h1 + h2); wt.w3 = 4 / (h + 2 * h1 + h2)
     }
+    finishStep(c, rhs, dPrev, dPrev2, wt, roomOfCell, roomErr, roomMass, pair)
+    const den = pair[0]!, neg = pair[1]!
     if (neg > 0 && den > 0) {
       // Rare undershoots ahead of steep fronts: zero them and take the same mass from the positive
       // cells in proportion (a global, mass-conserving fix; the amount is reported in stats).
-      const f = 1 - neg / den
-      for (let p = 0; p < n; p++) c[p] *= f
+      scaleField(c, 1 - neg / den)
       clipped += neg * vc
     }
     steps++
@@ -373,37 +378,37 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     const tPrev = t
     t = Math.abs(tNew - tEvent) < 1e-9 ? tEvent : tNew
     observeStep(tPrev, h)
-    // Accuracy control: backward Euler's local error ≈ (h²/2)|C''| with C'' from two successive
-    // increments, relative to the gas in the air; the next step is the ladder level that meets the tolerance.
+    // Accuracy control: the local error estimate h^3 |C'''| / 12, relative to the gas in each room; the
+    // next step is the ladder level that meets the tolerance (growing at most 2x per step).
     if (fixedDt === undefined) {
-      if (haveHistory && den > 0) {
-        for (let p = 0; p < n; p++) {
-          const r = roomOfCell[p]!
-          if (r < 0) continue
-          roomErr[r] += errCell[p]!
-          roomMass[r] += c[p]!
-        }
+      if (histSteps >= 2 && den > 0) {
         // Per-room relative norm, so a room far from the source is controlled as tightly as the source
-        // room once it holds a noticeable share (1e-3) of the airborne gas.
+        // room once it holds a noticeable share (1e-4 of the most gas airborne so far).
+        if (den > peakAirborne) peakAirborne = den
         let worst = 0
         for (let r = 0; r < nRooms; r++) {
-          if (roomMass[r]! > 1e-3 * den && roomMass[r]! > 0) worst = Math.max(worst, roomErr[r]! / roomMass[r]!)
+          if (roomMass[r]! > 1e-4 * peakAirborne && roomMass[r]! > 0) worst = Math.max(worst, roomErr[r]! / roomMass[r]!)
           roomErr[r] = 0
           roomMass[r] = 0
         }
-        const err = ((h * h) / (h + dtLast)) * worst
-        const wanted = err > 0 ? h * Math.min(2, 0.9 * Math.sqrt(num.tolerance / err)) : 2 * h
+        const err = ((h * h * h) / 12) * worst
+        const wanted = err > 0 ? h * Math.min(2, 0.9 * Math.cbrt(num.tolerance / err)) : 2 * h
         level = Math.max(levelFor(wanted), level - 1)
       } else if (stepLevel >= 0) level = Math.max(level - 1, 0)
+      dtLast2 = dtLast
       dtLast = h
-      haveHistory = true
+      histSteps++
     }
-    // A release event (start, stop, puff) restarts the control from a small step.
-    if (hitBreak && fixedDt === undefined) { level = initLevel; haveHistory = false; dtLast = 0 }
-    while (outIndex < nOut && times[outIndex]! < t - 1e-9) recordOutput(times[outIndex]!, (times[outIndex]! - tPrev) / h)
+    while (outIndex < nOut && times[outIndex]! < t - 1e-9) recordOutput(times[outIndex]!, (times[outIndex]! - tPrev) / h, h, hBefore)
     // Puffs at t count in the state at t (outputs are right-continuous in time).
     applyPuffs(t)
-    if (outIndex < nOut && times[outIndex]! <= t + 1e-9) recordOutput(times[outIndex]!, 1)
+    if (outIndex < nOut && times[outIndex]! <= t + 1e-9) recordOutput(times[outIndex]!, 1, h, hBefore)
+    hPrevStep = h
+    // A release event (start, stop, puff) restarts the control from a small step.
+    if (hitBreak) {
+      if (fixedDt === undefined) { level = initLevel; histSteps = 0; dtLast = 0; dtLast2 = 0 }
+      dPrev.fill(0); dPrev2.fill(0); hPrevStep = 0
+    }
     const frac = t / duration
     if (opts.onProgress && frac - lastProgress >= 0.01) { opts.onProgress(Math.min(frac, 1)); lastProgress = frac }
   }

@@ -1,0 +1,113 @@
+/**
+ * Hot per-step loops, kept as small top-level functions so the JIT optimises them on their own.
+ * All arrays are caller-owned; nothing is allocated.
+ */
+
+/** Coefficients of the third-derivative estimate from three successive step lengths (0 if unknown). */
+export interface RateWeights { ih: number; ih1: number; ih2: number; w1: number; w2: number; w3: number }
+
+/**
+ * c ← max(c + d, 0); shifts the increment history (d2 ← d1 ← d) and, when `wt` is given, accumulates
+ * per room Σ|C'''| (midpoint divided differences of the step rates) and Σc into roomErr / roomMass.
+ * Returns [airborne sum of c, total negative part removed].
+ */
+export function finishStep(
+  c: Float64Array, d: Float64Array, d1: Float64Array, d2: Float64Array, wt: RateWeights | null,
+  roomOfCell: Int16Array, roomErr: Float64Array, roomMass: Float64Array, out: Float64Array,
+): void {
+  const n = c.length
+  let den = 0, neg = 0
+  if (wt === null) {
+    for (let p = 0; p < n; p++) {
+      const dp = d[p]!
+      const v = c[p]! + dp
+      d2[p] = d1[p]!
+      d1[p] = dp
+      if (v < 0) { neg -= v; c[p] = 0 } else { c[p] = v; den += v }
+    }
+  } else {
+    const { ih, ih1, ih2, w1, w2, w3 } = wt
+    for (let p = 0; p < n; p++) {
+      const dp = d[p]!
+      const v = c[p]! + dp
+      const r0 = dp * ih, r1 = d1[p]! * ih1, r2 = d2[p]! * ih2
+      const e = Math.abs(((r0 - r1) * w1 - (r1 - r2) * w2) * w3)
+      d2[p] = d1[p]!
+      d1[p] = dp
+      const cv = v < 0 ? 0 : v
+      if (v < 0) neg -= v
+      else den += v
+      c[p] = cv
+      const r = roomOfCell[p]!
+      if (r >= 0) { roomErr[r] += e; roomMass[r] += cv }
+    }
+  }
+  out[0] = den
+  out[1] = neg
+}
+
+/** c ← c·f (the global mass-conserving fix after zeroing undershoots). */
+export function scaleField(c: Float64Array, f: number): void {
+  for (let p = 0; p < c.length; p++) c[p] *= f
+}
+
+/**
+ * Removal over a step by ventilation, local exhaust and floor outflow, at rate × dt × ((1−Θ)C + ΘC_new)
+ * with Θ = 1/2 where sink·dt ≤ 1 and 1 where it is stiff (Θ = 0 when `d` is null: explicit).
+ * Adds into acc[0] (ventilation), acc[1] (local exhaust); floor outflow goes to returnGas per return.
+ */
+export function accountSinks(
+  c: Float64Array, d: Float64Array | null, dt: number, cellVolume: number, nPlan: number, nz: number,
+  roomOfPlan: Int16Array, roomDecay: Float64Array, floorOut: Float64Array, sink: Float64Array,
+  exhaustCells: Int32Array, exhaustRates: Float64Array, returnOfRoom: Int32Array, returnGas: Float64Array, acc: Float64Array,
+): void {
+  const w = dt * cellVolume
+  let vent = 0
+  for (let pp = 0; pp < nPlan; pp++) {
+    const r = roomOfPlan[pp]!
+    if (r < 0) continue
+    const k = roomDecay[r]!
+    if (k > 0) {
+      let col = 0
+      for (let kk = 0; kk < nz; kk++) {
+        const p = pp + nPlan * kk
+        col += d === null ? c[p]! : c[p]! + (sink[p]! * dt <= 1 ? 0.5 : 1) * d[p]!
+      }
+      vent += k * col
+    }
+    const fo = floorOut[pp]!
+    if (fo > 0) returnGas[returnOfRoom[r]!] += fo * (d === null ? c[pp]! : c[pp]! + (sink[pp]! * dt <= 1 ? 0.5 : 1) * d[pp]!) * w
+  }
+  acc[0] += vent * w
+  let ex = 0
+  for (let a = 0; a < exhaustCells.length; a++) {
+    const p = exhaustCells[a]!
+    ex += exhaustRates[a]! * (d === null ? c[p]! : c[p]! + (sink[p]! * dt <= 1 ? 0.5 : 1) * d[p]!)
+  }
+  acc[1] += ex * w
+}
+
+/**
+ * Breathing-height and column-maximum snapshots (ppm) of the field c − α·d1 + β·d2 (time
+ * interpolation within the last step), NaN for non-air cells.
+ */
+export function snapshotPlan(
+  c: Float64Array, d: Float64Array, d2: Float64Array, alpha: number, beta: number, roomOfPlan: Int16Array, nPlan: number, nz: number,
+  k0: number, k1: number, wb: number, bh: Float32Array, cm: Float32Array,
+): void {
+  for (let pp = 0; pp < nPlan; pp++) {
+    if (roomOfPlan[pp]! < 0) { bh[pp] = NaN; cm[pp] = NaN; continue }
+    const p0 = pp + nPlan * k0, p1 = pp + nPlan * k1
+    let v0 = c[p0]! - alpha * d[p0]! + beta * d2[p0]!, v1 = c[p1]! - alpha * d[p1]! + beta * d2[p1]!
+    if (v0 < 0) v0 = 0
+    if (v1 < 0) v1 = 0
+    bh[pp] = (v0 * (1 - wb) + v1 * wb) * 1e6
+    let mx = 0
+    for (let k = 0; k < nz; k++) {
+      const p = pp + nPlan * k
+      const v = c[p]! - alpha * d[p]! + beta * d2[p]!
+      if (v > mx) mx = v
+    }
+    cm[pp] = mx * 1e6
+  }
+}

@@ -1,0 +1,97 @@
+// Benchmark of the dispersion engine on tests/fixtures/engine/bench-floor.json (npm run bench).
+// Each configuration runs in its own child process so that wall time, CPU time and peak memory are
+// measured in isolation. Errors are max over probes of max_t |C − C_ref| / max_t C_ref.
+import { spawnSync } from 'node:child_process'
+import { readFileSync } from 'node:fs'
+import { fileURLToPath } from 'node:url'
+import { simulate } from '../../shared/engine/simulate'
+
+const FIXTURE = fileURLToPath(new URL('../fixtures/engine/bench-floor.json', import.meta.url))
+const SELF = fileURLToPath(import.meta.url)
+const ROOT = fileURLToPath(new URL('../..', import.meta.url))
+
+interface ChildOut {
+  wall_s: number; cpu_s: number; max_rss_mb: number; steps: number; cells: number; solver: string
+  times: number[]; probes: Record<string, number[]>; closure: number
+}
+
+function child(config: string): void {
+  const cfg = JSON.parse(config) as { numerics?: object; solver?: 'explicit-baseline'; grid?: object; duration_s?: number }
+  const base = JSON.parse(readFileSync(FIXTURE, 'utf8'))
+  const scenario = { ...base, ...(cfg.grid ? { grid: cfg.grid } : {}), ...(cfg.duration_s ? { duration_s: cfg.duration_s } : {}), ...(cfg.numerics ? { numerics: cfg.numerics } : {}) }
+  const cpu0 = process.cpuUsage()
+  const t0 = performance.now()
+  const r = simulate(scenario, { solver: cfg.solver })
+  const wall = (performance.now() - t0) / 1000
+  const cpu = process.cpuUsage(cpu0)
+  const out: ChildOut = {
+    wall_s: wall, cpu_s: (cpu.user + cpu.system) / 1e6, max_rss_mb: process.resourceUsage().maxRSS / 1024,
+    steps: r.stats.steps, cells: r.stats.cells, solver: r.stats.solver, times: Array.from(r.times_s),
+    probes: Object.fromEntries(r.probes.map((p) => [p.id, Array.from(p.ppm)])), closure: r.mass_balance.closure_error,
+  }
+  process.stdout.write(JSON.stringify(out))
+}
+
+function runChild(config: object): ChildOut {
+  const res = spawnSync(process.execPath, [...process.execArgv, SELF, '--child', JSON.stringify(config)], { encoding: 'utf8', maxBuffer: 1 << 28 })
+  if (res.status !== 0) throw new Error(`child failed: ${res.stderr}`)
+  return JSON.parse(res.stdout) as ChildOut
+}
+
+function probeError(run: ChildOut, ref: ChildOut): number {
+  let worst = 0
+  for (const [id, series] of Object.entries(ref.probes)) {
+    const mine = run.probes[id]!
+    let peak = 0, err = 0
+    for (let k = 0; k < series.length; k++) {
+      peak = Math.max(peak, series[k]!)
+      err = Math.max(err, Math.abs(mine[k]! - series[k]!))
+    }
+    if (peak > 0) worst = Math.max(worst, err / peak)
+  }
+  return worst * 100
+}
+
+function cliWall(): number {
+  let best = Infinity
+  for (let k = 0; k < 3; k++) {
+    const t0 = performance.now()
+    const res = spawnSync('npm', ['run', '--silent', 'simulate', '--', FIXTURE], { cwd: ROOT, encoding: 'utf8', maxBuffer: 1 << 28 })
+    if (res.status !== 0) throw new Error(res.stderr)
+    best = Math.min(best, (performance.now() - t0) / 1000)
+  }
+  return best
+}
+
+function main(): void {
+  const fmt = (x: number, d = 3) => x.toFixed(d)
+  const line = (label: string, r: ChildOut, err?: string) =>
+    console.log(`${label.padEnd(34)} wall ${fmt(r.wall_s)} s  cpu ${fmt(r.cpu_s)} s  steps ${String(r.steps).padStart(5)}  ` +
+      `cell-updates/s ${((r.cells * r.steps) / r.wall_s / 1e6).toFixed(1)}e6  peak RSS ${r.max_rss_mb.toFixed(0)} MB${err ? `  ${err}` : ''}`)
+  console.log(`Driftwarden engine benchmark: ${FIXTURE}`)
+  const cli = cliWall()
+  console.log(`CLI 'npm run --silent simulate -- bench-floor.json' wall time (best of 3, includes npm + tsx start-up): ${fmt(cli)} s`)
+  const ref = runChild({ numerics: { time_step_s: 0.5 } })
+  line('reference (same grid, dt 0.5 s fixed)', ref)
+  const main_ = runChild({})
+  line('implicit (default accuracy control)', main_, `error vs reference ${fmt(probeError(main_, ref))} %  mass closure ${main_.closure.toExponential(1)}`)
+  const ftcs = runChild({ solver: 'explicit-baseline' })
+  line('explicit FTCS baseline', ftcs, `error vs reference ${fmt(probeError(ftcs, ref))} %`)
+  console.log(`speed-up implicit vs FTCS (wall): ${(ftcs.wall_s / main_.wall_s).toFixed(1)}x, (cpu): ${(ftcs.cpu_s / main_.cpu_s).toFixed(1)}x`)
+  const fine = runChild({ grid: { cell_m: 0.1, layers: 20 } })
+  line('half cell size (0.1 m, 20 layers)', fine, `grid error of 0.2 m run vs 0.1 m: ${fmt(probeError(main_, fine))} %`)
+  console.log('Scaling (cost per cell-update and per cell x simulated second):')
+  for (const [label, cfg] of [
+    ['0.4 m, 5 layers, 1800 s', { grid: { cell_m: 0.4, layers: 5 } }],
+    ['0.2 m, 10 layers, 1800 s', {}],
+    ['0.2 m, 10 layers, 3600 s', { duration_s: 3600 }],
+  ] as const) {
+    const r = label.startsWith('0.2 m, 10 layers, 1800') ? main_ : runChild(cfg)
+    const simT = 'duration_s' in cfg ? cfg.duration_s : 1800
+    console.log(`  ${label.padEnd(26)} cells ${String(r.cells).padStart(7)}  steps ${String(r.steps).padStart(4)}  wall ${fmt(r.wall_s)} s  ` +
+      `ns per cell-update ${((r.wall_s / (r.cells * r.steps)) * 1e9).toFixed(1)}  ns per cell x sim-s ${((r.wall_s / (r.cells * simT)) * 1e9).toFixed(2)}`)
+  }
+}
+
+if (process.argv[2] === '--child') child(process.argv[3]!)
+else main()
