@@ -18,8 +18,9 @@ let userIds: Record<string, number>
 beforeAll(async () => {
   rt = await startTestRuntime()
   officer = await as('ehs_officer')
-  const people = (await officer.get(FLOOR_API.people).expect(200)).body.people as { id: number; role: string }[]
-  userIds = Object.fromEntries(people.map((p) => [p.role, p.id]))
+  // The demo accounts by e-mail: other test files add more people with the same roles.
+  const people = (await officer.get(FLOOR_API.people).expect(200)).body.people as { id: number; role: string; email?: string; name: string }[]
+  userIds = Object.fromEntries(DEMO_ACCOUNTS.map((a) => [a.role, people.find((p) => p.name === a.name)!.id]))
   siteId = (await officer.post(FLOOR_API.sites).send({ name: `Site ${Date.now()}`, address: '1 Test Way' }).expect(201)).body.id
 })
 afterAll(() => rt.close())
