@@ -18,10 +18,17 @@ export interface ValidScenario {
   gas: Gas
 }
 
-function zodMessage(err: z.ZodError): ScenarioError {
+function zodMessage(err: z.ZodError, input: unknown): ScenarioError {
   const issue = err.issues[0]!
   const field = formatPath(issue.path)
-  if (field === 'gas') return new ScenarioError('gas', 'expected {"id": "<library gas>"} or full inline gas properties')
+  if (field.startsWith('gas')) {
+    const gas = (input as { gas?: unknown }).gas
+    if (gas && typeof gas === 'object' && 'name' in gas) {
+      const g = GasSchema.safeParse(gas)
+      if (!g.success) return new ScenarioError(`gas.${formatPath(g.error.issues[0]!.path)}`, g.error.issues[0]!.message)
+    }
+    return new ScenarioError('gas', 'expected {"id": "<library gas>"} or full inline gas properties')
+  }
   return new ScenarioError(field, issue.message)
 }
 
@@ -53,7 +60,7 @@ export function estimateMemoryBytes(s: Scenario, planCells: number): number {
  */
 export function validateScenario(input: unknown): ValidScenario {
   const parsed = ScenarioSchema.safeParse(input)
-  if (!parsed.success) throw zodMessage(parsed.error)
+  if (!parsed.success) throw zodMessage(parsed.error, input)
   const s = parsed.data
   const rooms = s.rooms
   checkUnique(rooms, 'rooms')
