@@ -1,4 +1,4 @@
-import { createHash, createHmac, randomBytes, timingSafeEqual } from 'node:crypto'
+import { createHash, createHmac, timingSafeEqual } from 'node:crypto'
 import { createEvent } from 'ics'
 import { formatLocal } from '../../shared/drills/time'
 import { SCREENING_CAUTION } from '../../shared/ui/cautions'
@@ -26,8 +26,10 @@ const sign = (secret: string, payload: string) => createHmac('sha256', secret).u
  * Receipt links follow the approach of services/signed-links.ts: `<participant>.<nonce>.<purpose>.<expires>.<hmac>`.
  * The HMAC stops forgery; the stored nonce hash (rotated by each notice) and token_used_at make it single-use.
  */
-export async function issueReceiptToken(db: Db, secret: string, participantId: number, expiresAt: Date, clearConfirmation: boolean): Promise<string> {
-  const nonce = randomBytes(18).toString('base64url')
+export async function issueReceiptToken(db: Db, secret: string, participantId: number, expiresAt: Date, clearConfirmation: boolean, generation: number): Promise<string> {
+  // Derived from the drill's notice sequence, so a reminder carries the same link as the invitation (both keep
+  // working until one is used) while a move, which bumps the sequence, replaces it.
+  const nonce = createHmac('sha256', secret).update(`drill-receipt-nonce.${participantId}.${generation}`).digest('base64url').slice(0, 24)
   await setParticipantToken(db, participantId, sha256(nonce), expiresAt, clearConfirmation)
   const payload = `${participantId}.${nonce}.${TOKEN_PURPOSE}.${Math.floor(expiresAt.getTime() / 1000)}`
   return `${payload}.${sign(secret, payload)}`
@@ -98,7 +100,7 @@ export async function sendDrillNotices(ctx: ServiceContext, db: Db, orgId: numbe
   const sent: number[] = []
   for (const p of participants) {
     const needsLink = kind === 'invitation' || kind === 'moved' || (kind === 'reminder' && !p.confirmed_at)
-    const token = needsLink ? await issueReceiptToken(db, ctx.linkSecret, p.id, tokenExpiry(new Date(drill.starts_at)), kind === 'moved') : null
+    const token = needsLink ? await issueReceiptToken(db, ctx.linkSecret, p.id, tokenExpiry(new Date(drill.starts_at)), kind === 'moved', drill.sequence) : null
     const lead: Record<NoticeKind, string> = {
       invitation: `You are invited to the emergency drill "${drill.title}" on ${drill.floor_name} (${drill.site_name}).`,
       moved: `The drill "${drill.title}" has been moved. The new time and place are below; please confirm again.`,
