@@ -1,0 +1,53 @@
+// The command line contract of shared/scenario-format.md: one JSON result on stdout, or one line on
+// stderr naming the field and a non-zero exit with nothing on stdout.
+import { spawnSync } from 'node:child_process'
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import { fileURLToPath } from 'node:url'
+import { describe, expect, it } from 'vitest'
+
+const root = fileURLToPath(new URL('../..', import.meta.url))
+const fixture = (name: string) => join(root, 'tests/fixtures/engine', name)
+const cli = (file: string) => spawnSync('npm', ['run', '--silent', 'simulate', '--', file], { cwd: root, encoding: 'utf8', maxBuffer: 1 << 26 })
+
+describe('simulate CLI', () => {
+  it('prints the result format for the format example', () => {
+    const r = cli(fixture('format-example.json'))
+    expect(r.status).toBe(0)
+    expect(r.stderr).toBe('')
+    const out = JSON.parse(r.stdout)
+    expect(out.times_s).toEqual(Array.from({ length: 31 }, (_, k) => k * 30))
+    expect(out.probes.p1.ppm).toHaveLength(31)
+    expect(out.probes.p1.ppm[0]).toBe(0)
+    expect(out.diffusivity_m2_s).toBe(0.005)
+    const mb = out.mass_balance
+    expect(mb.released_m3).toBeCloseTo(0.07, 10)
+    expect(Math.abs(mb.released_m3 - mb.in_air_m3 - mb.removed_m3)).toBeLessThan(1e-3 * mb.released_m3)
+    expect(out.stats.cells).toBe(13000)
+    expect(out.stats.steps).toBeGreaterThan(0)
+    expect(out.stats.wall_s).toBeGreaterThan(0)
+  }, 60_000)
+  it('rejects bad input with one stderr line naming the field and an empty stdout', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'dw-cli-'))
+    const bad = join(dir, 'bad.json')
+    const s = JSON.parse(readFileSync(fixture('format-example.json'), 'utf8'))
+    s.sources[0].release.rate_m3_s = -1
+    writeFileSync(bad, JSON.stringify(s))
+    const r = cli(bad)
+    expect(r.status).not.toBe(0)
+    expect(r.stdout).toBe('')
+    const lines = r.stderr.trim().split('\n')
+    expect(lines).toHaveLength(1)
+    expect(lines[0]).toMatch(/^sources\[0\]\.release\.rate_m3_s: /)
+  }, 60_000)
+  it('rejects unreadable JSON', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'dw-cli-'))
+    const bad = join(dir, 'bad.json')
+    writeFileSync(bad, '{ nope')
+    const r = cli(bad)
+    expect(r.status).not.toBe(0)
+    expect(r.stdout).toBe('')
+    expect(r.stderr.trim().split('\n')).toHaveLength(1)
+  }, 60_000)
+})
