@@ -1,56 +1,56 @@
 /**
  * Pre-factorised tridiagonal solves for the implicit sweeps. For a given dt the Thomas elimination
- * coefficients of (I + dt A_d) are computed once (`factorSweep`) and reused by every step with that dt
- * (`solveFactored`): the forward pass becomes y_p = r_p·a_p + b_p·y_{p−s}, the backward pass
- * x_p = y_p + u_p·x_{p+s}. Same layout as implicitSweep: [outer][n][inner].
+ * pivots of (I + dt·A_d + diag) are computed once (`factorSweep`) and reused by every step with that dt
+ * (`solveFactored`). Only the inverse pivots `a` are stored; the off-diagonal multipliers are rebuilt
+ * from the (single-precision) face coefficients, which halves the memory traffic of a solve.
+ * Layout [outer][n][inner]: line position m of line (o, q) is cell o·n·inner + m·inner + q.
  */
 export interface SweepFactor {
+  /** Inverse pivots. */
   a: Float64Array
-  b: Float64Array
-  u: Float64Array
+  fwd: Float32Array
+  bwd: Float32Array
+  dt: number
   outer: number
   n: number
   inner: number
 }
 
 /**
- * Elimination coefficients of (I + dt·A + extraDt·diag(diagExtra)) for one direction. Row p reads
- * (1 + dt(fwd[p] + bwd[p−s]) + extraDt·diagExtra[p]) x_p − dt·fwd[p−s] x_{p−s} − dt·bwd[p] x_{p+s}: an
- * M-matrix whose columns sum to 1 + extraDt·diagExtra, so solves are stable and conserve mass.
+ * Factorise (I + dt·A + diag(diagExtra)) for one direction. Row p reads
+ * (1 + dt(fwd[p] + bwd[p−s]) + diagExtra[p]) x_p − dt·fwd[p−s] x_{p−s} − dt·bwd[p] x_{p+s}: an M-matrix
+ * whose columns sum to 1 + diagExtra, so solves are stable, keep non-negative data non-negative and
+ * conserve mass (apart from the sink in diagExtra) to round-off.
  */
-export function factorSweep(fwd: Float64Array, bwd: Float64Array, dt: number, outer: number, n: number, inner: number, diagExtra: Float64Array | null, into?: SweepFactor, extraDt = dt): SweepFactor {
+export function factorSweep(fwd: Float32Array, bwd: Float32Array, dt: number, outer: number, n: number, inner: number, diagExtra: Float64Array | null, into?: SweepFactor): SweepFactor {
   const size = outer * n * inner
-  const f = into ?? { a: new Float64Array(size), b: new Float64Array(size), u: new Float64Array(size), outer, n, inner }
-  const { a, b, u } = f
+  const f = into ?? { a: new Float64Array(size), fwd, bwd, dt, outer, n, inner }
+  f.fwd = fwd; f.bwd = bwd; f.dt = dt; f.outer = outer; f.n = n; f.inner = inner
+  const a = f.a
   const block = n * inner
   for (let o = 0; o < outer; o++) {
     const base = o * block
     for (let q = 0; q < inner; q++) {
       const p = base + q
-      const inv = 1 / (1 + dt * fwd[p]! + (diagExtra !== null ? extraDt * diagExtra[p]! : 0))
-      a[p] = inv
-      b[p] = 0
-      u[p] = dt * bwd[p]! * inv
+      a[p] = 1 / (1 + dt * fwd[p]! + (diagExtra !== null ? diagExtra[p]! : 0))
     }
     for (let m = 1; m < n; m++) {
       const row = base + m * inner
       for (let q = 0; q < inner; q++) {
         const p = row + q, pm = p - inner
         const lo = dt * fwd[pm]!
-        const diag = 1 + dt * (fwd[p]! + bwd[pm]!) + (diagExtra !== null ? extraDt * diagExtra[p]! : 0)
-        const inv = 1 / (diag - lo * u[pm]!)
-        a[p] = inv
-        b[p] = lo * inv
-        u[p] = dt * bwd[p]! * inv
+        const uPrev = dt * bwd[pm]! * a[pm]!
+        const diag = 1 + dt * (fwd[p]! + bwd[pm]!) + (diagExtra !== null ? diagExtra[p]! : 0)
+        a[p] = 1 / (diag - lo * uPrev)
       }
     }
   }
   return f
 }
 
-/** Solve (I + dt·A) x = r in place with a factor from factorSweep. */
+/** Solve (I + dt·A + diag) x = r in place with a factor from factorSweep. */
 export function solveFactored(r: Float64Array, f: SweepFactor): void {
-  const { a, b, u, outer, n, inner } = f
+  const { a, fwd, bwd, dt, outer, n, inner } = f
   const block = n * inner
   if (inner === 1) {
     for (let o = 0; o < outer; o++) {
@@ -58,12 +58,12 @@ export function solveFactored(r: Float64Array, f: SweepFactor): void {
       let y = r[base]! * a[base]!
       r[base] = y
       for (let p = base + 1; p < end; p++) {
-        y = r[p]! * a[p]! + b[p]! * y
+        y = (r[p]! + dt * fwd[p - 1]! * y) * a[p]!
         r[p] = y
       }
       let x = r[end - 1]!
       for (let p = end - 2; p >= base; p--) {
-        x = r[p]! + u[p]! * x
+        x = r[p]! + dt * bwd[p]! * a[p]! * x
         r[p] = x
       }
     }
@@ -76,14 +76,14 @@ export function solveFactored(r: Float64Array, f: SweepFactor): void {
       const row = base + m * inner
       for (let q = 0; q < inner; q++) {
         const p = row + q
-        r[p] = r[p]! * a[p]! + b[p]! * r[p - inner]!
+        r[p] = (r[p]! + dt * fwd[p - inner]! * r[p - inner]!) * a[p]!
       }
     }
     for (let m = n - 2; m >= 0; m--) {
       const row = base + m * inner
       for (let q = 0; q < inner; q++) {
         const p = row + q
-        r[p] = r[p]! + u[p]! * r[p + inner]!
+        r[p] = r[p]! + dt * bwd[p]! * a[p]! * r[p + inner]!
       }
     }
   }

@@ -22,17 +22,20 @@ export interface Model {
   /** Per plan cell: room index, -1 for non-air. */
   roomOfPlan: Int16Array
   airCells: number
-  fwdX: Float64Array; bwdX: Float64Array
-  fwdY: Float64Array; bwdY: Float64Array
-  fwdZ: Float64Array; bwdZ: Float64Array
+  /** Face coefficients, s⁻¹, stored in single precision (each value is used identically on both sides
+   * of its face, so the scheme stays exactly conservative). */
+  fwdX: Float32Array; bwdX: Float32Array
+  fwdY: Float32Array; bwdY: Float32Array
+  fwdZ: Float32Array; bwdZ: Float32Array
   /** Per plan cell: outflow rate through the floor (downflow), s⁻¹ on the bottom layer. */
   floorOut: Float64Array
   /** Dilution removal rate per room, s⁻¹. */
   roomDecay: Float64Array
   /** Local exhaust cells and their removal rates, s⁻¹. */
   exhaustCells: Int32Array; exhaustRates: Float64Array
-  /** Cleanroom return paths (one per downflow room). */
-  returns: { room: number; flow: number; volume: number; exhaustFraction: number; topCells: Int32Array }[]
+  /** Cleanroom returns (one per downflow room): floor outflow rate w/dz (s⁻¹), exhausted fraction, and
+   * the room's top-layer and bottom-layer cells (same column order). */
+  returns: { room: number; rate: number; exhaustFraction: number; topCells: Int32Array; bottomCells: Int32Array }[]
   sources: { id: string; cell: number; history: ReleaseHistory }[]
   probes: { id: string; cells: Int32Array; weights: Float64Array }[]
   /** Breathing-height interpolation: lower layer, upper layer, weight of the upper layer. */
@@ -134,13 +137,13 @@ export function buildModel(s: Scenario, gas: Gas): Model {
     }
   }
 
-  const fwdX = new Float64Array(n), bwdX = new Float64Array(n)
-  const fwdY = new Float64Array(n), bwdY = new Float64Array(n)
-  const fwdZ = new Float64Array(n), bwdZ = new Float64Array(n)
+  const fwdX = new Float32Array(n), bwdX = new Float32Array(n)
+  const fwdY = new Float32Array(n), bwdY = new Float32Array(n)
+  const fwdZ = new Float32Array(n), bwdZ = new Float32Array(n)
   const gh = D / (h * h), gz = D / (dz * dz)
   for (let k = 0; k < nz; k++) for (let pp = 0; pp < nPlan; pp++) {
     const p = pp + nPlan * k
-    const fillPlan = (open: Float64Array, leak: Float64Array, flow: Float64Array, bottomOnly: Uint8Array, fwd: Float64Array, bwd: Float64Array) => {
+    const fillPlan = (open: Float64Array, leak: Float64Array, flow: Float64Array, bottomOnly: Uint8Array, fwd: Float32Array, bwd: Float32Array) => {
       const frac = open[pp]! + (k === 0 ? leak[pp]! : 0)
       const g = gh * Math.min(frac, 1)
       let u = 0
@@ -169,8 +172,7 @@ export function buildModel(s: Scenario, gas: Gas): Model {
     const df = room.ventilation.downflow
     if (!df) return
     const cells = topCellsOf[r]!
-    const area = cells.length * h * h
-    returns.push({ room: r, flow: df.speed_m_s * area, volume: df.return_volume_m3 ?? area * 1.0, exhaustFraction: df.exhaust_fraction, topCells: Int32Array.from(cells) })
+    returns.push({ room: r, rate: df.speed_m_s / dz, exhaustFraction: df.exhaust_fraction, topCells: Int32Array.from(cells), bottomCells: Int32Array.from(cells, (p) => p - nPlan * (nz - 1)) })
   })
   const roomDecay = Float64Array.from(s.rooms, (r) => r.ventilation.air_changes_per_hour / 3600)
 

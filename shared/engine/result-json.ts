@@ -33,7 +33,6 @@ export function resultToJson(r: SimulationResult, opts: ResultJsonOptions = {}) 
     probes,
     mass_balance: {
       released_m3: round(mb.released_m3, 10), in_air_m3: round(mb.in_air_m3, 10), removed_m3: round(mb.removed_m3, 10),
-      in_return_m3: round(mb.in_return_m3, 10),
       removed_by: { ventilation_m3: round(mb.removed_by.ventilation_m3, 10), local_exhaust_m3: round(mb.removed_by.local_exhaust_m3, 10), downflow_exhaust_m3: round(mb.removed_by.downflow_exhaust_m3, 10) },
       closure_error: mb.closure_error,
     },

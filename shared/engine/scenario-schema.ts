@@ -18,8 +18,6 @@ export const DownflowSchema = z.object({
   speed_m_s: pos(2),
   /** Fraction of the recirculated air that is exhausted and replaced by clean make-up air (0–1). */
   exhaust_fraction: nonNeg(1),
-  /** Volume of the return path (sub-floor, return chase, fans, ceiling plenum), m³; default floor area × 1 m. */
-  return_volume_m3: pos(1e6).optional(),
 }).strict()
 
 export const VentilationSchema = z.object({

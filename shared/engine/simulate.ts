@@ -51,9 +51,7 @@ export interface SimulationResult {
   max_twa15_ppm: Float32Array
   mass_balance: {
     released_m3: number
-    /** Room air plus the cleanroom return paths. */
     in_air_m3: number
-    in_return_m3: number
     removed_m3: number
     removed_by: { ventilation_m3: number; local_exhaust_m3: number; downflow_exhaust_m3: number }
     /** |released − in_air − removed| / released */
@@ -89,8 +87,9 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const nPlan = nx * ny, n = nPlan * nz
   const explicit = opts.solver === 'explicit-baseline'
   const c = new Float64Array(n)
-  const dPrev = new Float64Array(n)
-  const dPrev2 = new Float64Array(n)
+  // Increment history (ΔC of the last two steps): only for the error estimate and output interpolation.
+  const dPrev = new Float32Array(n)
+  const dPrev2 = new Float32Array(n)
 
   const duration = s.duration_s, interval = s.output_interval_s
   const nOut = Math.floor(duration / interval + 1e-9) + 1
@@ -132,7 +131,6 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const puffDone = new Uint8Array(puffs.length)
   const released = new Float64Array(m.sources.length)
   let releasedTotal = 0
-  const returnGas = new Float64Array(m.returns.length)
   let removedVent = 0, removedExhaust = 0, removedDownflow = 0
 
   const applyPuffs = (t: number) => {
@@ -218,17 +216,18 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     sink[pp] += m.floorOut[pp]!
   }
   for (let a = 0; a < m.exhaustCells.length; a++) sink[m.exhaustCells[a]!] += m.exhaustRates[a]!
-  const returnOfRoom = new Int32Array(m.roomIds.length).fill(-1)
-  m.returns.forEach((rt, q) => { returnOfRoom[rt.room] = q })
+  const exhaustFractionOfRoom = new Float64Array(m.roomIds.length)
+  for (const rt of m.returns) exhaustFractionOfRoom[rt.room] = rt.exhaustFraction
   const rhs = new Float64Array(n)
   let clipped = 0
 
-  const sinkAcc = new Float64Array(2)
+  const sinkAcc = new Float64Array(3)
   const account = (cOld: Float64Array, d: Float64Array | null, dt: number) => {
-    sinkAcc[0] = 0; sinkAcc[1] = 0
-    accountSinks(cOld, d, dt, vc, nPlan, nz, m.roomOfPlan, m.roomDecay, m.floorOut, sink, m.exhaustCells, m.exhaustRates, returnOfRoom, returnGas, sinkAcc)
+    sinkAcc[0] = 0; sinkAcc[1] = 0; sinkAcc[2] = 0
+    accountSinks(cOld, d, dt, vc, nPlan, nz, m.roomOfPlan, m.roomDecay, m.floorOut, sink, m.exhaustCells, m.exhaustRates, exhaustFractionOfRoom, sinkAcc)
     removedVent += sinkAcc[0]!
     removedExhaust += sinkAcc[1]!
+    removedDownflow += sinkAcc[2]!
   }
   /** Weight of the new value in a cell's sink term: Crank-Nicolson where k·dt ≤ 1, backward Euler
    * where the sink is stiff (a strong exhaust), so it can never overshoot (same rule in accountSinks). */
@@ -241,22 +240,41 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
       const add = v - released[q]!
       if (add > 0) { target[src.cell] += add / vc; releasedTotal += add; released[q] = v }
     }
-    // What left through the floor comes back through the ceiling filters, less the exhausted fraction.
+    // What leaves through the floor comes back through the ceiling filters, less the exhausted
+    // fraction, spread evenly over the room's top layer (explicit part of the delta form).
     for (let q = 0; q < m.returns.length; q++) {
       const rt = m.returns[q]!
-      const out = returnGas[q]! * (1 - Math.exp((-rt.flow * dt) / rt.volume))
-      returnGas[q] -= out
-      removedDownflow += rt.exhaustFraction * out
-      const add = ((1 - rt.exhaustFraction) * out) / (rt.topCells.length * vc)
+      let sum = 0
+      for (let a = 0; a < rt.bottomCells.length; a++) sum += c[rt.bottomCells[a]!]!
+      const add = (dt * (1 - rt.exhaustFraction) * rt.rate * sum) / rt.bottomCells.length
       for (let a = 0; a < rt.topCells.length; a++) target[rt.topCells[a]!] += add
     }
   }
   const out = outgoingRates(m, sink)
+  /**
+   * The return makes the last factor T − u vᵀ per cleanroom: u marks its top cells, v_q = Θ_q dt (1−f)
+   * (w/dz) / N on its N bottom cells (Θ as for the floor outflow, so the net floor sink is exactly f·w/dz).
+   * Precompute z = T⁻¹u and 1 − vᵀz for the Sherman-Morrison update of each solve.
+   */
+  const returnCorrection = (rt: Model['returns'][number], fz: SweepFactor, h: number) => {
+    const z = new Float64Array(n)
+    for (let a = 0; a < rt.topCells.length; a++) z[rt.topCells[a]!] = 1
+    solveFactored(z, fz)
+    const v = new Float64Array(rt.bottomCells.length)
+    let vz = 0
+    for (let a = 0; a < v.length; a++) {
+      const p = rt.bottomCells[a]!
+      v[a] = (sinkTheta(sink[p]!, h) * h * (1 - rt.exhaustFraction) * rt.rate) / v.length
+      vz += v[a]! * z[p]!
+    }
+    return { z, v, denom: 1 - vz }
+  }
+  const returnFactors = new Map<SweepFactor[], { z: Float64Array; v: Float64Array; denom: number }[]>()
   const theta = s.numerics.theta
   // Implicit weights per face: θ for diffusive faces, 1 (backward Euler) for faces that carry air
   // (downflow, transfer air), where Crank-Nicolson would ring at Courant numbers above 1.
-  const weighted = (fwd: Float64Array, bwd: Float64Array) => {
-    const f = new Float64Array(n), b = new Float64Array(n)
+  const weighted = (fwd: Float32Array, bwd: Float32Array) => {
+    const f = new Float32Array(n), b = new Float32Array(n)
     for (let p = 0; p < n; p++) {
       const w = fwd[p] === bwd[p] ? theta : 1
       f[p] = w * fwd[p]!
@@ -282,10 +300,11 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     const f = [
       factorSweep(wX.fwd, wX.bwd, h, ny * nz, nx, 1, null, into?.[0]),
       factorSweep(wY.fwd, wY.bwd, h, nz, ny, nx, null, into?.[1]),
-      factorSweep(wZ.fwd, wZ.bwd, h, 1, nz, nPlan, scaledSink(h), into?.[2], 1),
+      factorSweep(wZ.fwd, wZ.bwd, h, 1, nz, nPlan, scaledSink(h), into?.[2]),
     ]
     if (level >= 0) factors.set(level, f)
     else oddFactor = f
+    returnFactors.set(f, m.returns.map((rt) => returnCorrection(rt, f[2]!, h)))
     return f
   }
 
@@ -307,6 +326,18 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     solveFactored(rhs, f[0]!)
     solveFactored(rhs, f[1]!)
     solveFactored(rhs, f[2]!)
+    // Sherman-Morrison for the rank-one return coupling of each cleanroom (bottom layer -> top layer).
+    const corr = returnFactors.get(f)!
+    for (let q = 0; q < m.returns.length; q++) {
+      const rt = m.returns[q]!, rc = corr[q]!
+      let sdot = 0
+      for (let a = 0; a < rt.bottomCells.length; a++) sdot += rc.v[a]! * rhs[rt.bottomCells[a]!]!
+      const coef = sdot / rc.denom
+      for (let a = 0; a < rt.bottomCells.length; a++) {
+        const p0 = rt.bottomCells[a]!
+        for (let k = 0; k < nz; k++) rhs[p0 + nPlan * k] += coef * rc.z[p0 + nPlan * k]!
+      }
+    }
   }
 
   const nRooms = m.roomIds.length
@@ -416,10 +447,8 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   let inAir = 0
   for (let p = 0; p < n; p++) inAir += c[p]!
   inAir *= vc
-  let inReturn = 0
-  for (let q = 0; q < returnGas.length; q++) inReturn += returnGas[q]!
   const removed = removedVent + removedExhaust + removedDownflow
-  const totalAir = inAir + inReturn
+  const totalAir = inAir
 
   // Probe summaries from the output series.
   const probes: ProbeResult[] = m.probes.map((pr, q) => {
@@ -454,7 +483,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     breathing_ppm: breathing, column_max_ppm: columnMax, fronts_s: fronts,
     peak_ppm: nan(peak, 1e6), max_twa15_ppm: nan(maxTwa, 1e6),
     mass_balance: {
-      released_m3: releasedTotal, in_air_m3: totalAir, in_return_m3: inReturn, removed_m3: removed,
+      released_m3: releasedTotal, in_air_m3: totalAir, removed_m3: removed,
       removed_by: { ventilation_m3: removedVent, local_exhaust_m3: removedExhaust, downflow_exhaust_m3: removedDownflow },
       closure_error: releasedTotal > 0 ? Math.abs(releasedTotal - totalAir - removed) / releasedTotal : 0,
     },

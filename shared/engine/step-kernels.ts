@@ -12,7 +12,7 @@ export interface RateWeights { ih: number; ih1: number; ih2: number; w1: number;
  * Returns [airborne sum of c, total negative part removed].
  */
 export function finishStep(
-  c: Float64Array, d: Float64Array, d1: Float64Array, d2: Float64Array, wt: RateWeights | null,
+  c: Float64Array, d: Float64Array, d1: Float32Array, d2: Float32Array, wt: RateWeights | null,
   roomOfCell: Int16Array, roomErr: Float64Array, roomMass: Float64Array, out: Float64Array,
 ): void {
   const n = c.length
@@ -54,15 +54,16 @@ export function scaleField(c: Float64Array, f: number): void {
 /**
  * Removal over a step by ventilation, local exhaust and floor outflow, at rate × dt × ((1−Θ)C + ΘC_new)
  * with Θ = 1/2 where sink·dt ≤ 1 and 1 where it is stiff (Θ = 0 when `d` is null: explicit).
- * Adds into acc[0] (ventilation), acc[1] (local exhaust); floor outflow goes to returnGas per return.
+ * Adds into acc[0] (ventilation), acc[1] (local exhaust), acc[2] (exhausted fraction of the cleanroom
+ * floor outflow; the rest returns through the ceiling).
  */
 export function accountSinks(
   c: Float64Array, d: Float64Array | null, dt: number, cellVolume: number, nPlan: number, nz: number,
   roomOfPlan: Int16Array, roomDecay: Float64Array, floorOut: Float64Array, sink: Float64Array,
-  exhaustCells: Int32Array, exhaustRates: Float64Array, returnOfRoom: Int32Array, returnGas: Float64Array, acc: Float64Array,
+  exhaustCells: Int32Array, exhaustRates: Float64Array, exhaustFractionOfRoom: Float64Array, acc: Float64Array,
 ): void {
   const w = dt * cellVolume
-  let vent = 0
+  let vent = 0, down = 0
   for (let pp = 0; pp < nPlan; pp++) {
     const r = roomOfPlan[pp]!
     if (r < 0) continue
@@ -76,9 +77,10 @@ export function accountSinks(
       vent += k * col
     }
     const fo = floorOut[pp]!
-    if (fo > 0) returnGas[returnOfRoom[r]!] += fo * (d === null ? c[pp]! : c[pp]! + (sink[pp]! * dt <= 1 ? 0.5 : 1) * d[pp]!) * w
+    if (fo > 0) down += exhaustFractionOfRoom[r]! * fo * (d === null ? c[pp]! : c[pp]! + (sink[pp]! * dt <= 1 ? 0.5 : 1) * d[pp]!)
   }
   acc[0] += vent * w
+  acc[2] += down * w
   let ex = 0
   for (let a = 0; a < exhaustCells.length; a++) {
     const p = exhaustCells[a]!
@@ -92,7 +94,7 @@ export function accountSinks(
  * interpolation within the last step), NaN for non-air cells.
  */
 export function snapshotPlan(
-  c: Float64Array, d: Float64Array, d2: Float64Array, alpha: number, beta: number, roomOfPlan: Int16Array, nPlan: number, nz: number,
+  c: Float64Array, d: Float32Array, d2: Float32Array, alpha: number, beta: number, roomOfPlan: Int16Array, nPlan: number, nz: number,
   k0: number, k1: number, wb: number, bh: Float32Array, cm: Float32Array,
 ): void {
   for (let pp = 0; pp < nPlan; pp++) {
