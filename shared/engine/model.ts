@@ -3,6 +3,7 @@ import type { Gas } from '../gases/gas-schema'
 import { chooseDiffusivity } from './eddy-diffusivity'
 import { releaseHistory, type ReleaseHistory } from './releases'
 import type { Scenario } from './scenario-schema'
+import { ScenarioError } from './errors'
 
 /**
  * The discretised problem: a cell-centred Cartesian grid over the rooms' bounding box, index
@@ -91,6 +92,11 @@ export function buildModel(s: Scenario, gas: Gas): Model {
       if (pointInPolygon(c, s.rooms[r]!.polygon_m)) { roomOfPlan[i + nx * j] = r; airPlan++; break }
     }
   }
+  const perRoom = new Int32Array(s.rooms.length)
+  for (let pp = 0; pp < nPlan; pp++) if (roomOfPlan[pp]! >= 0) perRoom[roomOfPlan[pp]!]++
+  perRoom.forEach((count, r) => {
+    if (count === 0) throw new ScenarioError(`rooms[${r}].polygon_m`, `no cell centre lies inside room "${s.rooms[r]!.id}"; use a smaller grid.cell_m`)
+  })
   const { value: D, basis } = chooseDiffusivity(s, gas)
   const roomIndex = new Map(s.rooms.map((r, k) => [r.id, k]))
 
@@ -176,8 +182,8 @@ export function buildModel(s: Scenario, gas: Gas): Model {
   })
   const roomDecay = Float64Array.from(s.rooms, (r) => r.ventilation.air_changes_per_hour / 3600)
 
-  const cellOf = (pos: readonly [number, number, number]): number => nearestAirCell(pos)
-  const nearestAirCell = (pos: readonly [number, number, number]): number => {
+  const cellOf = (pos: readonly [number, number, number], field: string): number => nearestAirCell(pos, field)
+  const nearestAirCell = (pos: readonly [number, number, number], field: string): number => {
     const room = s.rooms.findIndex((r) => pointInPolygon([pos[0], pos[1]], r.polygon_m))
     const ci = Math.min(nx - 1, Math.max(0, Math.floor((pos[0] - x0) / h)))
     const cj = Math.min(ny - 1, Math.max(0, Math.floor((pos[1] - y0) / h)))
@@ -192,18 +198,18 @@ export function buildModel(s: Scenario, gas: Gas): Model {
       const d = (x0 + (i + 0.5) * h - pos[0]) ** 2 + (y0 + (j + 0.5) * h - pos[1]) ** 2
       if (d < bd) { bd = d; best = i + nx * j }
     }
-    if (best < 0) throw new Error(`no air cell near (${pos[0]}, ${pos[1]}); the room is thinner than one cell`)
+    if (best < 0) throw new ScenarioError(field, `no air cell of its room near (${pos[0]}, ${pos[1]}); the room is too narrow for grid.cell_m`)
     return best + nPlan * ck
   }
 
   const horizon = s.duration_s
   const orifice = { molarMass: gas.molar_mass_g_mol / 1000, gamma: gas.gamma }
-  const sources = s.sources.map((src) => ({ id: src.id, cell: cellOf(src.position_m), history: releaseHistory(src.release, orifice, horizon) }))
+  const sources = s.sources.map((src, i) => ({ id: src.id, cell: cellOf(src.position_m, `sources[${i}].position_m`), history: releaseHistory(src.release, orifice, horizon) }))
 
   // Probes: trilinear weights over the 8 surrounding cell centres, restricted to air cells of the
   // probe's room and renormalised; outside the outermost centres the value is held constant.
-  const probes = s.probes.map((pr) => {
-    const home = cellOf(pr.position_m)
+  const probes = s.probes.map((pr, pi) => {
+    const home = cellOf(pr.position_m, `probes[${pi}].position_m`)
     const room = roomOfPlan[home % nPlan]!
     const axis = (v: number, n0: number, step: number) => {
       const f = Math.min(Math.max(v / step - 0.5, 0), n0 - 1)
@@ -228,8 +234,8 @@ export function buildModel(s: Scenario, gas: Gas): Model {
 
   // Local exhausts: the flow is shared by the air cells of the exhaust's room within the capture radius.
   const exCells: number[] = [], exRates: number[] = []
-  for (const ex of s.local_exhausts) {
-    const home = cellOf(ex.position_m)
+  for (const [ei, ex] of s.local_exhausts.entries()) {
+    const home = cellOf(ex.position_m, `local_exhausts[${ei}].position_m`)
     const room = roomOfPlan[home % nPlan]!
     const rad = ex.capture_radius_m ?? 0.75 * Math.max(h, dz)
     const list: number[] = []

@@ -137,3 +137,18 @@ describe('doors', () => {
     expect(at(r, 'b', 600)).toBeGreaterThan(1)
   })
 })
+
+describe('depth-averaged case (layers: 1) vs the line source C = (q/H)/(4 pi D) E1(r^2/(4 D t)) (reference sheet §4.3, §12 #16)', () => {
+  // 10 m x 10 m, H = 3 m, 0.1 m cells, source in the centre cell, receptor 1 m (10 cells) away.
+  // Expected 729.20 ppm at 300 s and 1,256.24 ppm at 900 s (walls 4 m away: images add < 0.5 % at 900 s).
+  const c = 5.05
+  const result = simulate(oneRoom({
+    size: [10, 10], ceiling_m: 3, grid: { cell_m: 0.1, layers: 1 }, duration_s: 900, output_interval_s: 300,
+    effective_diffusivity_m2_s: D,
+    sources: [{ id: 's', position_m: [c, c, 1.5], release: { kind: 'constant', rate_m3_s: 1e-4, start_s: 0 } }],
+    probes: [{ id: 'r', position_m: [c + 1, c, 1.5] }],
+  }))
+  it.each([[300, 729.2], [900, 1256.24]])('t = %s s: %s ppm within 1.5 %%', (t, expected) => {
+    expect(Math.abs(at(result, 'r', t) / expected - 1)).toBeLessThan(0.015)
+  })
+})

@@ -1,6 +1,7 @@
 // Bad input is rejected before any work, with a message naming the field.
 import { describe, expect, it } from 'vitest'
 import { validateScenario } from '../../shared/engine/validate'
+import { simulate } from '../../shared/engine/simulate'
 import { rect } from './helpers'
 
 const good = () => ({
@@ -40,6 +41,11 @@ describe('scenario validation', () => {
     ['transfer into a room not beside the door', (s: any) => { s.rooms.push({ id: 'far', polygon_m: rect(10, 0, 12, 2) }); s.openings[0].transfer = { flow_m3_s: 0.1, into: 'far' } }, 'openings[0].transfer.into: room "far" is not on either side of the opening'],
   ])('%s', (_name, mutate, expected) => {
     expect(message(mutate as (s: Record<string, any>) => void).startsWith(expected as string)).toBe(true)
+  })
+  it('a room too small for the grid', () => {
+    const s = good()
+    s.rooms.push({ id: 'closet', polygon_m: rect(8, 0, 8.2, 0.2) })
+    expect(() => simulate(s)).toThrow('rooms[2].polygon_m: no cell centre lies inside room "closet"; use a smaller grid.cell_m')
   })
   it('inline gas properties are validated too', () => {
     expect(message((s) => { s.gas = { id: 'X', name: 'X', cas: null, molar_mass_g_mol: -3 } })).toMatch(/^gas\.molar_mass_g_mol: /)
