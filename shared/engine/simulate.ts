@@ -224,7 +224,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const sinkAcc = new Float64Array(3)
   const account = (cOld: Float64Array, d: Float64Array | null, dt: number) => {
     sinkAcc[0] = 0; sinkAcc[1] = 0; sinkAcc[2] = 0
-    accountSinks(cOld, d, dt, vc, nPlan, nz, m.roomOfPlan, m.roomDecay, m.floorOut, sink, m.exhaustCells, m.exhaustRates, exhaustFractionOfRoom, sinkAcc)
+    accountSinks(cOld, d, dt, vc, nPlan, nz, d === null, m.roomOfPlan, m.roomDecay, m.floorOut, sink, m.exhaustCells, m.exhaustRates, exhaustFractionOfRoom, sinkAcc)
     removedVent += sinkAcc[0]!
     removedExhaust += sinkAcc[1]!
     removedDownflow += sinkAcc[2]!
@@ -345,7 +345,9 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   for (let k = 0; k < nz; k++) roomOfCell.set(m.roomOfPlan, k * nPlan)
   const roomErr = new Float64Array(nRooms), roomMass = new Float64Array(nRooms)
   const rateWeights: RateWeights = { ih: 0, ih1: 0, ih2: 0, w1: 0, w2: 0, w3: 0 }
-  const pair = new Float64Array(2)
+  const pair = new Float64Array(3)
+  const ventOfCell = new Float64Array(n)
+  for (let p = 0; p < n; p++) { const r = roomOfCell[p]!; if (r >= 0) ventOfCell[p] = m.roomDecay[r]! }
   const num = s.numerics
   const fixedDt = explicit ? 0.98 * explicitStableStep(m, sink) : num.time_step_s
   // Step ladder: L0 divides the output interval, levels halve it, so aligned steps land on outputs
@@ -394,7 +396,8 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
       wt.ih = 1 / h; wt.ih1 = 1 / h1; wt.ih2 = 1 / h2
       wt.w1 = 2 / (h + h1); wt.w2 = 2 / (h1 + h2); wt.w3 = 4 / (h + 2 * h1 + h2)
     }
-    finishStep(c, rhs, dPrev, dPrev2, wt, roomOfCell, roomErr, roomMass, pair)
+    finishStep(c, rhs, dPrev, dPrev2, wt, roomOfCell, roomErr, roomMass, pair, ventOfCell, sink, h)
+    if (!explicit) removedVent += pair[2]! * h * vc
     const den = pair[0]!, neg = pair[1]!
     if (neg > 0 && den > 0) {
       // Rare undershoots ahead of steep fronts: zero them and take the same mass from the positive

@@ -9,18 +9,23 @@ export interface RateWeights { ih: number; ih1: number; ih2: number; w1: number;
 /**
  * c ← max(c + d, 0); shifts the increment history (d2 ← d1 ← d) and, when `wt` is given, accumulates
  * per room Σ|C'''| (midpoint divided differences of the step rates) and Σc into roomErr / roomMass.
- * Returns [airborne sum of c, total negative part removed].
+ * Writes [airborne sum of c, total negative part removed, Σ k_vent·((1−Θ)C + ΘC_new)] into `out`
+ * (Θ as in accountSinks; the last sum is the ventilation removal rate of the step).
  */
 export function finishStep(
   c: Float64Array, d: Float64Array, d1: Float32Array, d2: Float32Array, wt: RateWeights | null,
   roomOfCell: Int16Array, roomErr: Float64Array, roomMass: Float64Array, out: Float64Array,
+  ventOfCell: Float64Array, sink: Float64Array, dt: number,
 ): void {
   const n = c.length
-  let den = 0, neg = 0
+  let den = 0, neg = 0, vent = 0
   if (wt === null) {
     for (let p = 0; p < n; p++) {
       const dp = d[p]!
-      const v = c[p]! + dp
+      const cp = c[p]!
+      const v = cp + dp
+      const kv = ventOfCell[p]!
+      if (kv > 0) vent += kv * (cp + (sink[p]! * dt <= 1 ? 0.5 : 1) * dp)
       d2[p] = d1[p]!
       d1[p] = dp
       if (v < 0) { neg -= v; c[p] = 0 } else { c[p] = v; den += v }
@@ -29,7 +34,10 @@ export function finishStep(
     const { ih, ih1, ih2, w1, w2, w3 } = wt
     for (let p = 0; p < n; p++) {
       const dp = d[p]!
-      const v = c[p]! + dp
+      const cp = c[p]!
+      const v = cp + dp
+      const kv = ventOfCell[p]!
+      if (kv > 0) vent += kv * (cp + (sink[p]! * dt <= 1 ? 0.5 : 1) * dp)
       const r0 = dp * ih, r1 = d1[p]! * ih1, r2 = d2[p]! * ih2
       const e = Math.abs(((r0 - r1) * w1 - (r1 - r2) * w2) * w3)
       d2[p] = d1[p]!
@@ -44,6 +52,7 @@ export function finishStep(
   }
   out[0] = den
   out[1] = neg
+  out[2] = vent
 }
 
 /** c ← c·f (the global mass-conserving fix after zeroing undershoots). */
@@ -58,7 +67,7 @@ export function scaleField(c: Float64Array, f: number): void {
  * floor outflow; the rest returns through the ceiling).
  */
 export function accountSinks(
-  c: Float64Array, d: Float64Array | null, dt: number, cellVolume: number, nPlan: number, nz: number,
+  c: Float64Array, d: Float64Array | null, dt: number, cellVolume: number, nPlan: number, nz: number, withVentilation: boolean,
   roomOfPlan: Int16Array, roomDecay: Float64Array, floorOut: Float64Array, sink: Float64Array,
   exhaustCells: Int32Array, exhaustRates: Float64Array, exhaustFractionOfRoom: Float64Array, acc: Float64Array,
 ): void {
@@ -68,7 +77,7 @@ export function accountSinks(
     const r = roomOfPlan[pp]!
     if (r < 0) continue
     const k = roomDecay[r]!
-    if (k > 0) {
+    if (k > 0 && withVentilation) {
       let col = 0
       for (let kk = 0; kk < nz; kk++) {
         const p = pp + nPlan * kk
