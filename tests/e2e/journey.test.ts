@@ -201,6 +201,10 @@ describe('the whole job, in the browser', () => {
     await page.getByTestId('tool-workstation').click()
     await page.mouse.click(...at(330, 160))
     await panel.getByLabel('Name').fill('Wet bench')
+    // And the gas room's cylinder-change position, where a person can be caught close to the leak.
+    await page.getByTestId('tool-workstation').click()
+    await page.mouse.click(...at(200, 150))
+    await panel.getByLabel('Name').fill('Cylinder changeover')
 
     // Name the rooms from the element list.
     await page.getByTestId('element-list').getByText(/^Elements/).click()
@@ -219,7 +223,7 @@ describe('the whole job, in the browser', () => {
     expect(saved.plan.openings).toHaveLength(1)
     expect(saved.plan.sources.map((s: { name: string; gasId: string }) => `${s.name}:${s.gasId}`)).toEqual(['NH3 cylinder:NH3', 'LN2 dewar:N2'])
     expect(saved.plan.sources[1].waterVolumeM3).toBeCloseTo(0.18)
-    expect(saved.plan.workstations).toHaveLength(1)
+    expect(saved.plan.workstations.map((w: { name: string }) => w.name)).toEqual(['Wet bench', 'Cylinder changeover'])
     expect(saved.problems.filter((p: { severity: string }) => p.severity === 'error')).toEqual([])
     await expect.poll(() => textOf(page.getByTestId('property-panel'))).toContain('2 rooms · 1 opening · 2 sources')
     await expect.poll(() => textOf(page.getByTestId('problem-list'))).toMatch(/No problems|warning/i)
@@ -415,6 +419,8 @@ describe('the whole job, in the browser', () => {
     await expect.poll(() => textOf(page.getByTestId('drill-status'))).toContain('completed')
     const comparison = page.getByTestId('drill-comparison')
     await expect.poll(() => textOf(comparison)).toMatch(/150 s|2 min 30 s|2:30/)
+    // The workstation in the gas room reaches a critical level, so the plan predicted an egress time to compare with.
+    expect(await textOf(comparison.locator('tr', { hasText: 'Alarm to evacuation complete' }))).toMatch(/Within the predicted time|Slower than predicted/)
     await comparison.scrollIntoViewIfNeeded()
     await shot(page, '06-drill-recorded', { tablet: true })
     expect(drillId).toBeGreaterThan(0)

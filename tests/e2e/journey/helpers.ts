@@ -47,6 +47,8 @@ async function settle(page: Page) {
 export async function shot(page: Page, name: string, opts: { tablet?: boolean; fullPage?: boolean; before?: (page: Page) => Promise<void> } = {}) {
   mkdirSync(ARTIFACTS, { recursive: true })
   const fullPage = opts.fullPage ?? true
+  // A full-page picture taken while scrolled paints the fixed header mid-page.
+  if (fullPage) await page.evaluate(() => window.scrollTo(0, 0))
   await settle(page)
   await page.screenshot({ path: path.join(ARTIFACTS, `journey-${name}.png`), fullPage, animations: 'disabled' })
   if (opts.tablet) {
@@ -55,6 +57,7 @@ export async function shot(page: Page, name: string, opts: { tablet?: boolean; f
     await page.waitForFunction(() => window.innerWidth === 820)
     await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r))))
     if (opts.before) await opts.before(page)
+    if (fullPage) await page.evaluate(() => window.scrollTo(0, 0))
     await settle(page)
     await page.screenshot({ path: path.join(ARTIFACTS, `journey-${name}-820.png`), fullPage, animations: 'disabled' })
     await page.setViewportSize(LAPTOP)
