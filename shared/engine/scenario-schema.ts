@@ -111,8 +111,8 @@ export const GasRefSchema = z.union([z.object({ id: z.string().min(1) }).strict(
 export const NumericsSchema = z.object({
   /** Fixed time step, s (disables the accuracy control). */
   time_step_s: pos(3600).optional(),
-  /** Target local error per step of the accuracy control (relative). @default 0.0002 */
-  tolerance: finite.min(1e-7).max(0.5).default(0.0002),
+  /** Target local error per step of the accuracy control (relative). @default 0.00025 */
+  tolerance: finite.min(1e-7).max(0.5).default(0.00025),
   /** Largest time step allowed, s. @default 60 */
   max_time_step_s: pos(3600).default(60),
   /** Implicitness of the transport terms: 1 = backward Euler, 0.5 = Crank-Nicolson (sinks stay backward Euler). @default 0.5 */
@@ -139,7 +139,7 @@ export const ScenarioSchema = z.object({
   thresholds_ppm: z.array(pos(1e6)).max(20).default([]),
   /** Height of the breathing-zone snapshot and of the fronts, m. @default 1.5 */
   breathing_height_m: nonNeg(100).default(1.5),
-  numerics: NumericsSchema.default({ tolerance: 0.0002, max_time_step_s: 60, initial_time_step_s: 0.5, theta: 0.5 }),
+  numerics: NumericsSchema.default({ tolerance: 0.00025, max_time_step_s: 60, initial_time_step_s: 0.5, theta: 0.5 }),
 }).strict()
 
 /** A scenario file as written (before defaults). */
