@@ -447,6 +447,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     if (opts.onProgress && frac - lastProgress >= 0.01) { opts.onProgress(Math.min(frac, 1)); lastProgress = frac }
   }
 
+  if (opts.onProgress && lastProgress < 1) opts.onProgress(1)
   let inAir = 0
   for (let p = 0; p < n; p++) inAir += c[p]!
   inAir *= vc
