@@ -32,6 +32,7 @@ export function finishStep(
     }
   } else {
     const { ih, ih1, ih2, w1, w2, w3 } = wt
+    let room = -1, accE = 0, accM = 0
     for (let p = 0; p < n; p++) {
       const dp = d[p]!
       const cp = c[p]!
@@ -46,9 +47,17 @@ export function finishStep(
       if (v < 0) neg -= v
       else den += v
       c[p] = cv
+      // Rooms come in runs along x: accumulate locally and flush when the room changes (avoids a
+      // store-to-load dependency on the per-room arrays at every cell).
       const r = roomOfCell[p]!
-      if (r >= 0) { roomErr[r] += e; roomMass[r] += cv }
+      if (r !== room) {
+        if (room >= 0) { roomErr[room] += accE; roomMass[room] += accM }
+        room = r; accE = 0; accM = 0
+      }
+      accE += e
+      accM += cv
     }
+    if (room >= 0) { roomErr[room] += accE; roomMass[room] += accM }
   }
   out[0] = den
   out[1] = neg
