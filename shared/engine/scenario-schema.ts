@@ -117,8 +117,8 @@ export const NumericsSchema = z.object({
   max_time_step_s: pos(3600).default(60),
   /** Implicitness of the transport terms: 1 = backward Euler, 0.5 = Crank-Nicolson (sinks stay backward Euler). @default 0.5 */
   theta: finite.min(0.5).max(1).default(0.5),
-  /** First step after a release event, s. @default 0.5 */
-  initial_time_step_s: pos(600).default(0.5),
+  /** First step after a release event, s (rounded down to the step ladder). @default 2 */
+  initial_time_step_s: pos(600).default(2),
 }).strict()
 
 export const ScenarioSchema = z.object({
@@ -139,7 +139,7 @@ export const ScenarioSchema = z.object({
   thresholds_ppm: z.array(pos(1e6)).max(20).default([]),
   /** Height of the breathing-zone snapshot and of the fronts, m. @default 1.5 */
   breathing_height_m: nonNeg(100).default(1.5),
-  numerics: NumericsSchema.default({ tolerance: 0.00025, max_time_step_s: 60, initial_time_step_s: 0.5, theta: 0.5 }),
+  numerics: NumericsSchema.default({ tolerance: 0.00025, max_time_step_s: 60, initial_time_step_s: 2, theta: 0.5 }),
 }).strict()
 
 /** A scenario file as written (before defaults). */
