@@ -492,6 +492,6 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
       closure_error: releasedTotal > 0 ? Math.abs(releasedTotal - totalAir - removed) / releasedTotal : 0,
     },
     diffusivity_m2_s: m.diffusivity, diffusivity_basis: m.diffusivityBasis, gas,
-    stats: { cells: m.airCells, grid_cells: n, steps, wall_s: (now() - t0Wall) / 1000, min_dt_s: minDt, max_dt_s: maxDt, clipped_m3: clipped, solver: explicit ? 'explicit-baseline (FTCS)' : 'implicit delta-form ADI (backward Euler, pre-factorised Thomas)' },
+    stats: { cells: m.airCells, grid_cells: n, steps, wall_s: (now() - t0Wall) / 1000, min_dt_s: minDt, max_dt_s: maxDt, clipped_m3: clipped, solver: explicit ? 'explicit-baseline (FTCS)' : 'implicit delta-form ADI (Crank-Nicolson on diffusive faces, backward Euler on advective faces and stiff sinks; pre-factorised Thomas)' },
   }
 }
