@@ -257,6 +257,20 @@ describe('the whole job, in the browser', () => {
     await page.getByTestId('caution-banner').first().waitFor()
     return runId
   }
+  /** The admin's Outbox, refreshed until the captured message to `to` with that subject shows; then opened. */
+  async function openInOutbox(to: string, subject: RegExp) {
+    const { page } = adminActor
+    await page.goto(`${server.url}/admin/outbox`)
+    await page.getByRole('heading', { name: 'Outbox' }).waitFor()
+    const item = page.getByTestId('captured-mail-item').filter({ hasText: to }).filter({ hasText: subject }).first()
+    await expect.poll(async () => {
+      if (await item.count()) return true
+      await page.getByRole('button', { name: 'Refresh' }).click()
+      return false
+    }, { timeout: 30_000, interval: 1_000 }).toBe(true)
+    await item.click()
+    return page
+  }
   const mapPixels = (page: Page) => page.getByTestId('concentration-map').evaluate((c) => (c as HTMLCanvasElement).toDataURL())
 
   it('03 the officer runs the ammonia and nitrogen leaks, watches the map change, and accepts advised detectors', async () => {
@@ -361,6 +375,11 @@ describe('the whole job, in the browser', () => {
     await page.getByTestId('plan-acks').scrollIntoViewIfNeeded()
     await shot(page, '05-manager-acknowledged', { fullPage: false })
 
+    // The request the lab manager answered is in the fake SMTP server's capture, as the admin's Outbox shows.
+    const outbox = await openInOutbox(people.manager.email, /Please acknowledge/)
+    await expect.poll(() => textOf(outbox.locator('article pre'))).toContain(`/plans/${planId}`)
+    await shot(outbox, '05-outbox-ack-request')
+
     // The officer sees it on the plan.
     await officer.page.reload()
     await expect.poll(() => textOf(officer.page.getByTestId('plan-acks'))).toContain(people.manager.name)
@@ -387,6 +406,9 @@ describe('the whole job, in the browser', () => {
     const mail = await waitForMail(db(), people.staff.email, /^Drill invitation/, 30_000)
     const link = linkFrom(mail.text_body ?? '', '/drills/confirm?token=')
     const staff = await actor()
+    const outbox = await openInOutbox(people.staff.email, /Drill invitation/)
+    await expect.poll(() => textOf(outbox.locator('article pre'))).toContain('/drills/confirm?token=')
+    await shot(outbox, '06-outbox-drill-invitation')
     await staff.page.goto(link)
     await staff.page.getByTestId('confirm-title').waitFor()
     await shot(staff.page, '06-staff-confirm', { tablet: true })
