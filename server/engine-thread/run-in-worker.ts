@@ -3,6 +3,9 @@ import type { SimulationResult } from '../../shared/engine/simulate'
 import type { WorkerInput, WorkerMessage } from './protocol'
 import { startWorker } from './start-worker'
 
+/** How long a cancelled engine may take to reach its next step check before the thread is terminated. */
+const CANCEL_GRACE_MS = 3000
+
 /** A simulation running in a worker thread. */
 export interface SimulationJob {
   /** Resolves with the result; rejects with ScenarioError (bad input), SimulationCancelled or Error. */
@@ -33,7 +36,18 @@ export function runSimulationInWorker(scenario: unknown, opts: { onProgress?(fra
       }
     })
     worker.on('error', (e) => { if (!settled) { settled = true; reject(e) } })
-    worker.on('exit', (code) => { if (!settled) { settled = true; reject(new Error(`simulation worker exited with code ${code}`)) } })
+    worker.on('exit', (code) => {
+      if (settled) return
+      settled = true
+      reject(Atomics.load(flag, 0) ? new SimulationCancelled() : new Error(`simulation worker exited with code ${code}`))
+    })
   })
-  return { result, cancel: () => { Atomics.store(flag, 0, 1) } }
+  return {
+    result,
+    cancel: () => {
+      Atomics.store(flag, 0, 1)
+      // A run busy outside the step loop (building a large model) is stopped the hard way after a grace period.
+      setTimeout(() => void worker.terminate(), CANCEL_GRACE_MS).unref()
+    },
+  }
 }

@@ -10,10 +10,18 @@ import { findFloorInOrg } from '../repositories/floors.repo'
 import {
   claimRun, findRunById, findStaleRuns, finishRun, hasResult, heartbeatRun, insertResultOnce, lockHeldRun, releaseLostRun, replaceRunJob, setRunJob,
 } from '../repositories/runs.repo'
-import { EngineRunError, runEngineInThread } from './engine-thread-runner'
+import { ScenarioError, SimulationCancelled } from '../../shared/engine/errors'
+import { runSimulationInWorker } from '../engine-thread/run-in-worker'
 import type { JobQueue } from './queue'
 
 /** The pg-boss queue of engine runs. Job data: { runId }. */
+/** Wraps what the engine thread rejected with, to tell it apart from database trouble after the run. */
+class EngineStopped extends Error {
+  constructor(readonly cause: unknown) {
+    super(cause instanceof Error ? cause.message : String(cause))
+  }
+}
+
 export const RUNS_QUEUE = 'engine-runs'
 /** Attempts of one run before it is failed for good (first try + retries). */
 export const MAX_ATTEMPTS = 4
@@ -78,7 +86,7 @@ export async function startRunWorkers(db: Db, jobs: JobQueue, opts: RunWorkerOpt
     if (!built.ok) return fail(`The scenario cannot run on the current plan: ${Object.entries(built.fields).map(([k, v]) => `${k}: ${v}`).join('; ')}`)
 
     let progress = 0
-    const engine = runEngineInThread(built.scenario, (f) => { progress = f })
+    const engine = runSimulationInWorker(built.scenario, { onProgress: (f) => { progress = f } })
     let lost = false
     const beat = setInterval(() => {
       heartbeatRun(db, runId, holder, Math.min(progress, 0.99)).then((r) => {
@@ -86,7 +94,7 @@ export async function startRunWorkers(db: Db, jobs: JobQueue, opts: RunWorkerOpt
       }).catch((e) => log(`heartbeat failed: ${(e as Error).message}`))
     }, heartbeatMs)
     try {
-      const result = await engine.result
+      const result = await engine.result.catch((e: unknown) => { throw new EngineStopped(e) })
       clearInterval(beat)
       const stored = summarizeRun(result, plan.data, config.data, built.scenario, built.notes)
       const buf = (a: Float32Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength)
@@ -101,13 +109,13 @@ export async function startRunWorkers(db: Db, jobs: JobQueue, opts: RunWorkerOpt
       return { ok: true }
     } catch (e) {
       clearInterval(beat)
-      if (e instanceof EngineRunError && e.kind === 'cancelled') {
+      if (e instanceof EngineStopped && e.cause instanceof SimulationCancelled) {
         if (lost) return { lost: true }
         await finishRun(db, runId, holder, 'cancelled', 'Cancelled while running')
         return { cancelled: true }
       }
-      if (e instanceof EngineRunError && e.kind === 'scenario') return fail(`The engine refused the scenario: ${e.message}`)
-      if (e instanceof EngineRunError) return fail(`The engine stopped: ${e.message}`)
+      if (e instanceof EngineStopped && e.cause instanceof ScenarioError) return fail(`The engine refused the scenario: ${e.message}`)
+      if (e instanceof EngineStopped) return fail(`The engine stopped: ${e.message}`)
       // Database trouble and the like: let pg-boss retry; give the run back first.
       await releaseLostRun(db, runId, holder, false).catch(() => undefined)
       throw e

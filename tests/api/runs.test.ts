@@ -58,7 +58,7 @@ describe('the queue end to end (pg-boss, worker thread, PostgreSQL)', () => {
 
   it('cancels a running run: it stops, ends cancelled and stores nothing', async () => {
     const sc = await officer.post(`/api/floors/${floorId}/scenarios`).send({
-      name: 'Slow NH3 run for cancel', sourceIds: ['nh3-cabinet'], durationS: 3600, outputIntervalS: 60, cellM: 0.12, layers: 10,
+      name: 'Slow NH3 run for cancel', sourceIds: ['nh3-cabinet'], durationS: 14400, outputIntervalS: 60, cellM: 0.1, layers: 12,
     }).expect(201)
     const started = await officer.post(`/api/scenarios/${sc.body.id}/runs`).expect(202)
     await waitForRun(officer, started.body.id, (r) => r.status === 'running' && r.progress > 0)
