@@ -106,3 +106,10 @@ export const auditOf = (db: Db, orgId: number, targetType: string, targetId: num
     .select(['audit_log.at', 'audit_log.action', 'audit_log.detail', 'users.name as actor'])
     .where('audit_log.org_id', '=', orgId).where('audit_log.target_type', '=', targetType).where('audit_log.target_id', '=', String(targetId))
     .orderBy('audit_log.id').execute()
+
+/** The active account that published a version (to tell them about acknowledgments), if any. */
+export const publisherOfVersion = (db: Db, orgId: number, versionId: number) =>
+  db.selectFrom('plan_versions').innerJoin('users', 'users.id', 'plan_versions.published_by')
+    .select(['users.id', 'users.name', 'users.email'])
+    .where('plan_versions.id', '=', versionId).where('plan_versions.org_id', '=', orgId).where('users.status', '=', 'active')
+    .executeTakeFirst()

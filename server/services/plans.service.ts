@@ -13,7 +13,7 @@ import { appendAudit } from '../repositories/audit.repo'
 import { floorIdsOfUser } from '../repositories/floors.repo'
 import {
   auditOf, findDraft, findLatestPublished, findPlanInOrg, findVersion, insertAck, insertPlan, insertVersion, listAcks, listPlansInOrg,
-  listVersions, managersOfFloors, maxVersion, publishDraft, runsWithSummaries, updateDraftContent,
+  listVersions, managersOfFloors, maxVersion, publishDraft, publisherOfVersion, runsWithSummaries, updateDraftContent,
 } from '../repositories/plans.repo'
 import type { ServiceContext } from './context'
 import { canManageFloors, requireVisibleFloor } from './floors.service'
@@ -230,6 +230,27 @@ export async function acknowledgePlan(ctx: ServiceContext, actor: Actor, id: num
     if (!row) throw conflict('You have already acknowledged this version', 'already_acknowledged')
     await appendAudit(trx, { orgId: actor.orgId, actorId: actor.id, action: 'plan.acknowledged', targetType: 'plan', targetId: id,
       detail: { version, hash: v.content_hash, comment } })
+    // Tell the officer who published this version; same transaction, so no mail without the acknowledgment.
+    const publisher = await publisherOfVersion(trx, actor.orgId, v.id)
+    if (publisher && publisher.id !== actor.id) {
+      const content = PlanContent.parse(v.content)
+      const all = await listAcks(trx, [id])
+      const done = new Set(all.filter((a) => a.version === version).map((a) => a.user_id))
+      const waiting = managers.filter((m) => !done.has(m.id)).map((m) => m.name)
+      const mail = composeMail({
+        subject: `Acknowledged: ${content.title} (version ${version}) by ${actor.name}`,
+        greeting: `Hello ${publisher.name},`,
+        paragraphs: [
+          `${actor.name} acknowledged version ${version} of the response plan "${content.title}" for ${plan.site_name}, ${plan.floor_name}.`,
+          comment.trim() ? `Their comment: ${comment.trim()}` : 'They left no comment.',
+          waiting.length
+            ? `Still to acknowledge (${waiting.length} of ${managers.length}): ${waiting.join(', ')}.`
+            : `Every lab manager of the floor (${managers.length}) has now acknowledged this version.`,
+        ],
+        action: { label: 'Open the plan', url: `${ctx.publicUrl()}/plans/${id}` },
+      })
+      await ctx.mail.queue(trx, { orgId: actor.orgId, kind: 'plan_acknowledged', ref: `plan:${id}:v${version}:ack:${actor.id}`, to: publisher.email, ...mail })
+    }
     return row
   })
   return { id: ack.id, userId: ack.user_id, name: ack.name, at: iso(ack.acknowledged_at)!, comment: ack.comment, version }

@@ -124,6 +124,14 @@ describe('versions, publishing and acknowledgments', () => {
     expect(after.body.canAcknowledge).toBe(false)
     const list = (await officer.get('/api/plans').expect(200)).body.plans.find((p: { id: number }) => p.id === planId)
     expect(list.acks).toEqual({ done: 1, pending: 1, overdue: 0 })
+    // The officer who published is told, with the comment as text, who is still waiting, and the caution
+    const told = await waitForMail(rt.ctx.db, acct('ehs_officer').email, /^Acknowledged: /)
+    expect(told.subject).toContain(`(version 1) by ${acct('lab_manager').name}`)
+    expect(told.text_body).toContain('Read with my team <script>')
+    expect(told.html_body).toContain('Read with my team &lt;script&gt;')
+    expect(told.text_body).toMatch(/Still to acknowledge \(1 of 2\): Ana <i>Second<\/i> Manager/)
+    expect(told.text_body).toMatch(/Screening estimate/i)
+    expect(told.text_body).toContain(`/plans/${planId}`)
   })
 
   it('a later edit starts version 2; once published, version 1 is stale and everyone is asked again', async () => {
