@@ -1,3 +1,4 @@
+import { ROLE_LABELS } from '../../shared/schemas/common'
 import type { Invitation, UserSummary, UserUpdate } from '../../shared/schemas/users'
 import type { UsersTable } from '../db/tables/foundation'
 import { AppError, conflict, notFound } from '../http/errors'
@@ -34,7 +35,7 @@ export async function inviteUser(ctx: ServiceContext, actor: Actor, input: Invit
       subject: `You are invited to ${org?.name ?? 'Driftwarden'} on Driftwarden`,
       greeting: `Hello ${input.name},`,
       paragraphs: [
-        `${actor.name} invited you to join ${org?.name ?? 'your organization'} on Driftwarden as ${input.role.replace('_', ' ')}.`,
+        `${actor.name} invited you to join ${org?.name ?? 'your organization'} on Driftwarden with the role “${ROLE_LABELS[input.role]}”.`,
         'Open the link below to choose your password. The link works once and expires in 7 days.',
       ],
       action: { label: 'Set your password', url: `${ctx.publicUrl()}/invite?token=${encodeURIComponent(token)}` },
