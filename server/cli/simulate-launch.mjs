@@ -1,0 +1,75 @@
+// Fast start-up for `npm run simulate`: bundles server/cli/simulate.ts (and everything it imports)
+// once with esbuild into node_modules/.cache/driftwarden/simulate-cli.mjs, then runs the bundle
+// with plain node, so tsx's loader (and its per-file transpilation) is not paid on every run.
+//
+// The bundle's first line records every input file esbuild read (sources under shared/ and
+// server/cli, and the node_modules files it pulled in) with its mtime, plus this launcher's own
+// mtime and the esbuild version. A run rebuilds when any of them changed or is missing, or when the
+// cache is absent (clean clone). The bundle is written to a temporary file and renamed into place,
+// so concurrent first runs never see (or leave) a partial file; the last rename wins and every
+// candidate is complete. If the cache directory cannot be written, the fresh bundle is run from
+// memory instead.
+import { mkdirSync, readFileSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs'
+import { dirname, join, resolve } from 'node:path'
+import { fileURLToPath, pathToFileURL } from 'node:url'
+
+const HERE = fileURLToPath(import.meta.url)
+const ROOT = resolve(dirname(HERE), '../..')
+const ENTRY = join(ROOT, 'server/cli/simulate.ts')
+const CACHE_DIR = join(ROOT, 'node_modules/.cache/driftwarden')
+const BUNDLE = join(CACHE_DIR, 'simulate-cli.mjs')
+const TAG = '// driftwarden-bundle '
+
+function mtime(path) {
+  try { return statSync(path).mtimeMs } catch { return -1 }
+}
+
+/** The cached bundle if it is complete and every recorded input is unchanged, else null. */
+function freshBundle() {
+  let text
+  try { text = readFileSync(BUNDLE, 'utf8') } catch { return null }
+  if (!text.startsWith(TAG)) return null
+  const eol = text.indexOf('\n')
+  let manifest
+  try { manifest = JSON.parse(text.slice(TAG.length, eol)) } catch { return null }
+  if (manifest.launcher !== mtime(HERE)) return null
+  for (const [file, t] of Object.entries(manifest.inputs)) {
+    if (t < 0 || mtime(join(ROOT, file)) !== t) return null
+  }
+  return text
+}
+
+async function buildBundle() {
+  const { build, version } = await import('esbuild')
+  const started = Date.now()
+  const res = await build({
+    entryPoints: [ENTRY], absWorkingDir: ROOT, bundle: true, platform: 'node', format: 'esm', target: 'node20',
+    write: false, metafile: true, logLevel: 'silent', legalComments: 'none',
+    // Bundled CommonJS dependencies may call require(): give the ESM bundle one.
+    banner: { js: "import { createRequire as __dwCreateRequire } from 'node:module'; const require = __dwCreateRequire(import.meta.url);" },
+  })
+  const inputs = {}
+  for (const file of Object.keys(res.metafile.inputs)) {
+    const t = mtime(join(ROOT, file))
+    // A file modified while esbuild was reading it is recorded as stale: the next run rebuilds.
+    inputs[file] = t >= started - 5 ? -1 : t
+  }
+  const manifest = { esbuild: version, launcher: mtime(HERE), inputs }
+  return TAG + JSON.stringify(manifest) + '\n' + res.outputFiles[0].text
+}
+
+let code = freshBundle()
+let url = pathToFileURL(BUNDLE).href
+if (code === null) {
+  code = await buildBundle()
+  const tmp = `${BUNDLE}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`
+  try {
+    mkdirSync(CACHE_DIR, { recursive: true })
+    writeFileSync(tmp, code)
+    renameSync(tmp, BUNDLE)
+  } catch {
+    try { unlinkSync(tmp) } catch { /* never written */ }
+    url = 'data:text/javascript;base64,' + Buffer.from(code).toString('base64')
+  }
+}
+await import(url)
