@@ -1,7 +1,7 @@
 import type { Content, TableCell } from 'pdfmake/interfaces'
 import type { Plan } from '../../shared/floorplan/plan-schema'
 import { floorPanelSvg, keyTimes, type FigureField } from '../../shared/plans/figure'
-import { formatFrom, formatPpm, formatSeconds } from '../../shared/plans/format'
+import { doorLineLabel, formatEventTime, formatFrom, formatPpm, formatSeconds, ISOLATION_NONE, summaryForStatus } from '../../shared/plans/format'
 import { RULES } from '../../shared/plans/rule-list'
 import type { AckRecord, PlanContent, PlanLine } from '../../shared/schemas/plans'
 import { RunFieldsMeta, RunSummary } from '../../shared/schemas/runs'
@@ -65,7 +65,7 @@ export async function renderPlanPdf(p: PlanPdfInput): Promise<Buffer> {
   body.push({ text: `${p.siteName} · ${p.floorName} · version ${p.version} (${p.status === 'published' ? `published ${p.publishedAt?.slice(0, 10)}` : 'DRAFT, not published'})`, margin: [0, 0, 0, 2] })
   body.push({ text: [{ text: 'Version hash (sha256): ', bold: true }, p.hash ?? 'none yet: drafts have no hash'], fontSize: 8, margin: [0, 0, 0, 8] })
   body.push(cautionBox(['Exposure limits are for healthy adult workers; they are not lines between safe and dangerous.']))
-  if (c.summary) body.push({ text: c.summary, margin: [0, 0, 0, 6] })
+  if (c.summary) body.push({ text: summaryForStatus(c.summary, p.status), margin: [0, 0, 0, 6] })
 
   body.push(h2('1. Hazard'))
   for (const h of c.hazard.items) {
@@ -79,9 +79,9 @@ export async function renderPlanPdf(p: PlanPdfInput): Promise<Buffer> {
   body.push(...notes(c.hazard.notes))
 
   body.push(h2('2. Predicted timeline'))
-  body.push({ text: `Predicted first alarm: ${formatSeconds(c.predicted.firstAlarmS, 'none')} · smallest time left for egress: ${formatSeconds(c.predicted.egressMarginS, 'no critical level')} · isolate within: ${formatSeconds(c.predicted.isolationByS, 'no limit at a workstation')} (after the alarm is heard)`, bold: true, margin: [0, 0, 0, 4] })
+  body.push({ text: `Predicted first alarm: ${formatEventTime(c.predicted.firstAlarmS, 'none')} · smallest time left for egress: ${formatSeconds(c.predicted.egressMarginS, 'no critical level')} · isolate within: ${formatSeconds(c.predicted.isolationByS, ISOLATION_NONE)} (after the alarm is heard)`, bold: true, margin: [0, 0, 0, 4] })
   body.push(table([60, '*', 120, 110], ['Time', 'Event', 'Where', 'From'], c.timeline.rows.map((r) => [
-    r.kind === 'egress' ? `${formatSeconds(r.timeS, '–')} left` : formatSeconds(r.timeS, 'never'), r.event, r.where || '–', small(formatFrom(r.from)) as TableCell,
+    r.kind === 'egress' ? `${formatSeconds(r.timeS, '–')} left` : formatEventTime(r.timeS, 'never'), r.event, r.where || '–', small(formatFrom(r.from)) as TableCell,
   ])))
   body.push(...notes(c.timeline.notes))
 
@@ -99,7 +99,7 @@ export async function renderPlanPdf(p: PlanPdfInput): Promise<Buffer> {
   body.push(h2('3. Evacuation'))
   body.push({ text: [{ text: 'Assembly point: ', bold: true }, c.evacuation.assemblyPoint || 'not set yet – the officer must name it before publishing'], margin: [0, 0, 0, 4] })
   body.push(table([100, 80, '*', 110], ['Room', 'Leave', 'Doors', 'Why / from'], c.evacuation.rooms.map((r) => [
-    r.roomName, LEVEL_TEXT[r.alarmLevel], r.doors.length ? r.doors.map((d) => `${d.name}${d.note ? ` (${d.note})` : ''}`).join('\n') : '–',
+    r.roomName, LEVEL_TEXT[r.alarmLevel], r.doors.length ? r.doors.map((d) => `${doorLineLabel(d)}${d.note ? ` (${d.note})` : ''}`).join('\n') : '–',
     { stack: [r.reason, small(formatFrom(r.from))] } as TableCell,
   ])))
   body.push(...notes(c.evacuation.notes))

@@ -5,7 +5,7 @@ import { VENTILATION_STATE_LABELS } from '../schemas/runs'
 import type {
   AlarmLevel, ChecklistStep, DerivedFrom, EvacuationRoom, HazardItem, PlanContent, PlanLine, PlanRole, TimelineRow,
 } from '../schemas/plans'
-import { formatPpm, formatSeconds } from './format'
+import { atEventTime, doorLabel, formatPpm, formatSeconds } from './format'
 
 /**
  * The documented rules that turn scenario results (run summaries) into a response-plan draft.
@@ -118,10 +118,12 @@ export function timelineRows(runs: PlanRunInput[]): TimelineRow[] {
   for (const run of runs) {
     const s = run.summary
     const receptor = (id: string) => s.receptors.find((r) => r.id === id)
+    const levelText = (level: 'low' | 'high') => (level === 'low' ? 'Low (warning)' : 'High (evacuation)')
     if (s.firstAlarm) {
+      // One event, one row: the first alarm is also that detector's set-point crossing, so that row is not repeated below.
       const d = receptor(s.firstAlarm.detectorId)
-      rows.push({ id: `tl-${run.id}-first`, kind: 'first_alarm', event: `First detector alarm (${s.firstAlarm.level})`, where: d?.name ?? s.firstAlarm.detectorId,
-        limitKey: null, timeS: s.firstAlarm.timeS, from: from(run, 'R2a', 'detector', s.firstAlarm.detectorId, d?.name ?? null) })
+      rows.push({ id: `tl-${run.id}-first`, kind: 'first_alarm', event: `First detector alarm: ${levelText(s.firstAlarm.level).toLowerCase()} set point`, where: d?.name ?? s.firstAlarm.detectorId,
+        limitKey: `alarm_${s.firstAlarm.level}`, timeS: s.firstAlarm.timeS, from: from(run, 'R2a', 'detector', s.firstAlarm.detectorId, d?.name ?? null) })
     } else {
       rows.push({ id: `tl-${run.id}-first`, kind: 'first_alarm', event: 'No detector reaches its alarm set point within the run', where: '',
         limitKey: null, timeS: null, from: from(run, 'R2a', 'run', null, null) })
@@ -129,7 +131,8 @@ export function timelineRows(runs: PlanRunInput[]): TimelineRow[] {
     for (const d of s.receptors.filter((r) => r.kind === 'detector')) {
       for (const [level, t] of [['low', d.alarmLowS], ['high', d.alarmHighS]] as const) {
         if (t === null) continue
-        rows.push({ id: `tl-${run.id}-${d.id}-${level}`, kind: 'detector_alarm', event: `${level === 'low' ? 'Low (warning)' : 'High (evacuation)'} alarm`,
+        if (s.firstAlarm && s.firstAlarm.detectorId === d.id && s.firstAlarm.level === level && s.firstAlarm.timeS === t) continue
+        rows.push({ id: `tl-${run.id}-${d.id}-${level}`, kind: 'detector_alarm', event: `${levelText(level)} alarm`,
           where: d.name, limitKey: `alarm_${level}`, timeS: t, from: from(run, 'R2a', 'detector', d.id, d.name) })
       }
     }
@@ -153,7 +156,7 @@ export function timelineRows(runs: PlanRunInput[]): TimelineRow[] {
       let event: string
       let t: number | null = null
       if (crit.timeS === null) event = 'Time left for egress: no critical level within the run'
-      else if (warn === null) event = `Time left for egress: none, ${CRITICAL_LABEL[crit.key!]} at ${formatSeconds(crit.timeS)} with no detector alarm before it`
+      else if (warn === null) event = `Time left for egress: none, ${CRITICAL_LABEL[crit.key!]} ${atEventTime(crit.timeS)} with no detector alarm before it`
       else {
         t = Math.max(0, crit.timeS - warn)
         event = crit.timeS < warn
@@ -191,13 +194,13 @@ export function roomLevel(run: PlanRunInput, roomId: string): { level: AlarmLeve
   const crit = minOrNull([...CRITICAL_KEYS.map((k) => room?.firstExceedS[k]), ...wss.map((w) => criticalTimeAt(s, w).timeS)])
   if (crit !== null) {
     const key = CRITICAL_KEYS.find((k) => room?.firstExceedS[k] === crit) ?? wss.map((w) => criticalTimeAt(s, w)).find((c) => c.timeS === crit)?.key ?? 'idlh'
-    return { level: 'low', reason: `${CRITICAL_LABEL[key]} reached at ${formatSeconds(crit)}: leave at the first alarm` }
+    return { level: 'low', reason: `${CRITICAL_LABEL[key]} reached ${atEventTime(crit)}: leave at the first alarm` }
   }
   const exp = minOrNull([
     ...Object.entries(room?.firstExceedS ?? {}).filter(([k]) => isExposureKey(k)).map(([, v]) => v),
     ...wss.flatMap((w) => Object.entries(w.firstExceedS).filter(([k]) => isExposureKey(k)).map(([, v]) => v)),
   ])
-  if (exp !== null) return { level: 'high', reason: `An exposure limit is exceeded at ${formatSeconds(exp)} but no critical level: leave at the high alarm (or at once if you smell or feel the gas)` }
+  if (exp !== null) return { level: 'high', reason: `An exposure limit is exceeded ${atEventTime(exp)} but no critical level: leave at the high alarm (or at once if you smell or feel the gas)` }
   return { level: 'none', reason: 'No limit exceeded within the run: stay alert and follow the incident lead' }
 }
 
@@ -221,7 +224,7 @@ export function evacuationRooms(runs: PlanRunInput[], plan: Plan): EvacuationRoo
             : other?.level === 'low'
               ? `Leads into ${door.leadsTo.name}, also affected: keep moving through it to the next exit`
               : `Leads into ${door.leadsTo.name}`
-          return { openingId: door.openingId, name: door.name, note }
+          return { openingId: door.openingId, name: doorLabel(door.name, door.leadsTo?.name ?? null), note }
         })
       : []
     out.push({ roomId, roomName: room?.name ?? d.name, alarmLevel: d.level, reason: `${d.reason} (${d.run.label})`, doors,
@@ -245,7 +248,7 @@ export function immediateActions(runs: PlanRunInput[], evac: EvacuationRoom[]): 
     const names = s.sources.map((x) => x.name).join(', ')
     if (dets.length) {
       const d = dets[0]!
-      lines.push({ id: `act-${run.id}-shutoff`, text: `High alarm of ${d.name} (predicted at ${formatSeconds(d.alarmHighS)}) should close the automatic shut-off valve of ${names}. Confirm the interlock exists and has been tested.`,
+      lines.push({ id: `act-${run.id}-shutoff`, text: `High alarm of ${d.name} (predicted ${atEventTime(d.alarmHighS!)}) should close the automatic shut-off valve of ${names}. Confirm the interlock exists and has been tested.`,
         who: 'Gas detection system (automatic); gas technician confirms', from: from(run, 'R4a', 'detector', d.id, d.name) })
     } else {
       lines.push({ id: `act-${run.id}-shutoff`, text: `No detector reaches its high alarm in this result, so an automatic shut-off would not trip on its own: isolate ${names} by hand.`,
@@ -335,7 +338,7 @@ export function checklist(runs: PlanRunInput[], evac: EvacuationRoom[]): { steps
   const firstAlarmS = minOrNull(runs.map((r) => r.summary.firstAlarm?.timeS))
   const alarmRun = runs.find((r) => r.summary.firstAlarm?.timeS === firstAlarmS) ?? first
   steps.push({ id: 'ck-alarm', who: 'Anyone in the area', what: 'Recognise the alarm and call out the evacuation', targetS: 0,
-    basis: firstAlarmS === null ? 'No detector alarm is predicted: the drill starts when someone notices the gas' : `Start of the drill; the first detector alarm is predicted at ${formatSeconds(firstAlarmS)} after the release, heard about ${DETECTOR_LAG_S} s later`,
+    basis: firstAlarmS === null ? 'No detector alarm is predicted: the drill starts when someone notices the gas' : `Start of the drill; the first detector alarm is predicted ${atEventTime(firstAlarmS)} after the release, heard about ${DETECTOR_LAG_S} s later`,
     measure: 'none', from: from(alarmRun, 'R7a', 'run', null, null) })
 
   // Per evacuated room: the smallest egress margin of its workstations, over every result.
@@ -349,13 +352,32 @@ export function checklist(runs: PlanRunInput[], evac: EvacuationRoom[]): { steps
         if (m !== null && (margin === null || m < margin)) { margin = m; src = { run, ws } }
       }
     }
+    // No workstation margin (none drawn, or none reached): the room's own critical time drives the target.
+    let roomSrc: { run: PlanRunInput; critS: number; key: string; warnS: number | null } | null = null
+    if (margin === null) {
+      for (const run of runs) {
+        const r = run.summary.rooms.find((x) => x.id === room.roomId)
+        for (const key of CRITICAL_KEYS) {
+          const t = r?.firstExceedS[key]
+          if (typeof t !== 'number') continue
+          const warn = warningTimeS(run.summary)
+          const m = warn === null ? 0 : Math.max(0, t - warn)
+          if (margin === null || m < margin) { margin = m; roomSrc = { run, critS: t, key, warnS: warn } }
+        }
+      }
+    }
     if (margin !== null) overallEgress = overallEgress === null ? margin : Math.min(overallEgress, margin)
     const doors = room.doors.map((d) => d.name).join(', ') || 'the nearest exit'
+    const basis = src
+      ? `Time left for egress at ${src.ws.name} (${src.run.label})`
+      : roomSrc
+        ? `${CRITICAL_LABEL[roomSrc.key]} is reached in the room ${atEventTime(roomSrc.critS)}${roomSrc.warnS === null ? ' with no detector alarm' : roomSrc.critS <= roomSrc.warnS ? ', before the alarm is heard: no time is left' : `, ${formatSeconds(roomSrc.critS - roomSrc.warnS)} after the alarm is heard`} (${roomSrc.run.label})`
+        : 'No critical level in this room within the results'
     steps.push({ id: `ck-evac-${room.roomId}`, who: `Occupants of ${room.roomName}; floor warden`,
       what: `Leave ${room.roomName} by ${doors} at the ${room.alarmLevel === 'low' ? 'first' : 'high'} alarm, closing doors behind you`,
       targetS: margin,
-      basis: margin === null ? 'No critical level at a workstation of this room within the results' : `Time left for egress at ${src!.ws.name} (${src!.run.label})`,
-      measure: 'alarm_to_evacuated', from: src ? from(src.run, 'R7b', 'receptor', src.ws.id, src.ws.name) : room.from })
+      basis,
+      measure: 'alarm_to_evacuated', from: src ? from(src.run, 'R7b', 'receptor', src.ws.id, src.ws.name) : roomSrc ? from(roomSrc.run, 'R7b', 'room', room.roomId, room.roomName) : room.from })
   }
 
   const iso = minOrNull(runs.map((r) => isolationTargetS(r.summary)))
@@ -388,7 +410,7 @@ export function generatePlan(floor: PlanFloorInput, runs: PlanRunInput[], title?
   const prot = protection(runs)
   return {
     title: title?.trim() || `${gases} release – ${floor.name}`,
-    summary: `Generated from ${runs.length} result${runs.length > 1 ? 's' : ''} (${runs.map((r) => `#${r.id} ${r.label}`).join('; ')}) for ${floor.siteName}, ${floor.name}. Review every section before publishing.`,
+    summary: `Generated from ${runs.length} result${runs.length > 1 ? 's' : ''} (${runs.map((r) => `#${r.id} ${r.label}`).join('; ')}) for ${floor.siteName}, ${floor.name}.`,
     hazard: { items: hazardItems(runs, floor.plan), notes: '' },
     timeline: { rows: timelineRows(runs), notes: `Times are from the start of the release. The alarm is assumed heard ${DETECTOR_LAG_S} s after a detector crosses its set point.` },
     evacuation: { rooms: evac, assemblyPoint: '', notes: '' },

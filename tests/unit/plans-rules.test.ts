@@ -4,6 +4,7 @@ import { RULES } from '../../shared/plans/rule-list'
 import { DETECTOR_LAG_S, generatePlan } from '../../shared/plans/rules'
 import { PlanContent } from '../../shared/schemas/plans'
 import { fixtureFloor, fixtureSummary } from './plans-fixtures'
+import { doorLabel, formatEventTime, summaryForStatus } from '../../shared/plans/format'
 
 const floor = { name: 'Level 1', siteName: 'Test site', plan: fixtureFloor() }
 const run = { id: 7, label: 'NH3 cylinder, normal', summary: fixtureSummary() }
@@ -28,7 +29,9 @@ describe('plan rules on the hand-computed case', () => {
 
   it('R2: first alarm, time to each limit at every workstation, room critical levels, egress margin', () => {
     const row = (id: string) => plan.timeline.rows.find((r) => r.id === id)
-    expect(row('tl-7-first')).toMatchObject({ timeS: 40, where: 'Detector A' })
+    expect(row('tl-7-first')).toMatchObject({ timeS: 40, where: 'Detector A', event: 'First detector alarm: low (warning) set point' })
+    // The first alarm is Detector A's low set point: one row, not two
+    expect(row('tl-7-det-a-low')).toBeUndefined()
     expect(row('tl-7-det-a-high')!.timeS).toBe(70)
     expect(row('tl-7-ws-a-rel_twa')!.timeS).toBe(100)
     expect(row('tl-7-ws-a-idlh')!.timeS).toBe(150)
@@ -116,11 +119,52 @@ describe('plan rules on the hand-computed case', () => {
     expect(p.hazard.items.map((h) => h.from!.runId)).toEqual([3, 7])
   })
 
+  it('drafts carry no review reminder in the stored summary; unnamed doors say where they lead', () => {
+    expect(plan.summary).not.toMatch(/Review every section/)
+    const f = fixtureFloor()
+    f.openings = f.openings.map((o) => (o.id === 'door-a' ? { ...o, name: '' } : o))
+    const p = generatePlan({ ...floor, plan: f }, [run])
+    expect(p.evacuation.rooms.find((r) => r.roomId === 'A')!.doors[0]!.name).toBe('Door to Corridor C')
+    expect(p.evacuation.rooms.find((r) => r.roomId === 'C')!.doors[0]!.name).toBe('Door to Gas room A')
+  })
+
+  it('a room crossing IDLH within the first step says so, and drives its evacuation target without a workstation', () => {
+    const s = fixtureSummary()
+    s.rooms = s.rooms.map((r) => (r.id === 'A' ? { ...r, firstExceedS: { ...r.firstExceedS, idlh: 0.04 } } : r))
+    // No workstation in room A reaches a critical level
+    s.receptors = s.receptors.map((r) => (r.id === 'ws-a' ? { ...r, roomId: 'B', roomName: 'Lab B', firstExceedS: { rel_twa: 100 } } : r))
+    const p = generatePlan(floor, [{ id: 5, label: 'strong', summary: s }])
+    const a = p.evacuation.rooms.find((r) => r.roomId === 'A')!
+    expect(a.reason).toMatch(/^IDLH reached within the first second \(< 1 s\)/)
+    expect(a.reason).not.toMatch(/ 0 s/)
+    const step = p.checklist.find((x) => x.id === 'ck-evac-A')!
+    expect(step.targetS).toBe(0)
+    expect(step.basis).toMatch(/IDLH is reached in the room within the first second .*before the alarm is heard/)
+    expect(step.from).toMatchObject({ subjectKind: 'room', subjectId: 'A' })
+    expect(p.predicted.egressMarginS).toBe(0)
+    // A room critical time after the alarm is heard gives the margin from the room
+    s.rooms = s.rooms.map((r) => (r.id === 'A' ? { ...r, firstExceedS: { ...r.firstExceedS, idlh: 100 } } : r))
+    const q = generatePlan(floor, [{ id: 5, label: 'strong', summary: s }])
+    expect(q.checklist.find((x) => x.id === 'ck-evac-A')).toMatchObject({ targetS: 30 })
+    expect(q.checklist.find((x) => x.id === 'ck-evac-A')!.basis).toMatch(/at 1 min 40 s, 30 s after the alarm is heard/)
+  })
+
   it('is deterministic, and every rule id used is documented', () => {
     expect(canonicalJson(generatePlan(floor, [run]))).toBe(canonicalJson(plan))
     const used = new Set(JSON.stringify(plan).match(/"rule":"(R\d\w?)"/g)!.map((m) => m.slice(8, -1)))
     const documented = RULES.flatMap((r) => r.id.split('/'))
     for (const id of used) expect(documented.some((d) => d === id || (d === 'R7' && id.startsWith('R7')))).toBe(true)
+  })
+
+  it('display helpers: event times, door labels, published summaries', () => {
+    expect(formatEventTime(0)).toBe('within the first second (< 1 s)')
+    expect(formatEventTime(12)).toBe('12 s')
+    expect(formatEventTime(null)).toBe('not within the run')
+    expect(doorLabel('  ', 'Process lab')).toBe('Door to Process lab')
+    expect(doorLabel('', null)).toBe('Door to outside')
+    expect(doorLabel('East exit', 'Process lab')).toBe('East exit')
+    expect(summaryForStatus('Generated from 1 result. Review every section before publishing.', 'published')).toBe('Generated from 1 result.')
+    expect(summaryForStatus('Generated. Review every section before publishing.', 'draft')).toContain('Review every section')
   })
 
   it('canonical JSON sorts keys at every level', () => {
