@@ -137,6 +137,28 @@ export function centroid(polygon: readonly Point[]): [number, number] {
   return [cx / (3 * a), cy / (3 * a)]
 }
 
+/** Gas given to a new source or detector when none is chosen: N2, an inert gas nobody mistakes for a hazard. */
+export const FIRST_GAS_DEFAULT = 'N2'
+
+export type GasDefaultBasis = 'last-source' | 'last-detector' | 'first'
+
+/** The gas a new source or detector starts with: the last source's, else the last detector's, else N2. */
+export function defaultGas(plan: Plan): { gasId: string; basis: GasDefaultBasis } {
+  const s = plan.sources.at(-1)?.gasId
+  if (s) return { gasId: s, basis: 'last-source' }
+  const d = plan.detectors.at(-1)?.gasId
+  if (d) return { gasId: d, basis: 'last-detector' }
+  return { gasId: FIRST_GAS_DEFAULT, basis: 'first' }
+}
+
+/** What the property panel says about a default gas, so that nobody keeps it without noticing. */
+export function gasDefaultNote(gasId: string, basis: GasDefaultBasis, what: 'source' | 'detector'): string {
+  const why = basis === 'last-source' ? 'the same as the last source'
+    : basis === 'last-detector' ? 'the same as the last detector'
+      : 'the default for a first ' + what
+  return `Gas: ${gasId} (${why}). Choose another if this ${what} ${what === 'source' ? 'holds' : 'detects'} a different gas.`
+}
+
 /** New elements with sensible, clearly generic defaults; people adjust them in the property panel. */
 export const makeElement = {
   room(plan: Plan, polygon: [number, number][]): Room {
@@ -147,12 +169,12 @@ export const makeElement = {
     return { id: nextId(plan, kind === 'door' ? 'door' : 'pass'), name: '', kind, open: kind === 'door',
       segment: [[segment[0][0], segment[0][1]], [segment[1][0], segment[1][1]]] }
   },
-  source(plan: Plan, at: Point, gasId = 'N2'): Source {
+  source(plan: Plan, at: Point, gasId = FIRST_GAS_DEFAULT): Source {
     return { id: nextId(plan, 'source'), name: '', kind: 'cylinder', gasId, position: [at[0], at[1]], releaseHeightM: 1,
       liquefied: false, inventoryKg: null, pressurePa: 1.5e7, waterVolumeM3: 0.05, restriction: { kind: 'orifice', diameterM: 0.001 },
       dischargeCoefficient: 0.62 }
   },
-  detector(plan: Plan, at: Point, gasId = 'N2'): Detector {
+  detector(plan: Plan, at: Point, gasId = FIRST_GAS_DEFAULT): Detector {
     const gas = findGas(gasId)
     const [low, high] = gas ? defaultAlarmSetPoints(gas).map((a) => a.ppm) : []
     const heavy = (gas?.relative_density ?? 1) > 1.1

@@ -2,7 +2,7 @@ import { acceptHMRUpdate, defineStore } from 'pinia'
 import { computed, ref, shallowRef } from 'vue'
 import { checkPlan, isPlanValid, type PlanProblem } from '../../shared/floorplan/checks'
 import { LIBRARY_GAS_IDS } from '../../shared/floorplan/gas-ids'
-import { duplicateElements, findElement, removeElements, type PlanElement } from '../../shared/floorplan/plan-edit'
+import { duplicateElements, findElement, removeElements, type GasDefaultBasis, type PlanElement } from '../../shared/floorplan/plan-edit'
 import { emptyPlan, PLAN_COLLECTIONS, type Plan } from '../../shared/floorplan/plan-schema'
 import type { FloorDetail } from '../../shared/schemas/floors'
 import { floorsApi } from '../api/floors'
@@ -45,6 +45,8 @@ export const useFloorEditorStore = defineStore('floor-editor', () => {
   const restoredDraft = ref(false)
   const lastSavedAt = ref<string | null>(null)
   const retryInMs = ref(0)
+  /** The source or detector just placed and the gas it was given by default (the property panel says so). */
+  const lastPlaced = ref<{ id: string; gasId: string; basis: GasDefaultBasis } | null>(null)
 
   const canEdit = computed(() => floor.value?.canEdit ?? false)
   const ceilingM = computed(() => floor.value?.ceilingHeightM ?? 3)
@@ -80,6 +82,7 @@ export const useFloorEditorStore = defineStore('floor-editor', () => {
       saveError.value = null
       lastSavedAt.value = detail.updatedAt
       restoredDraft.value = false
+      lastPlaced.value = null
       const draft = readDraft(id)
       if (draft && detail.canEdit && JSON.stringify(draft.plan) !== JSON.stringify(detail.plan)) {
         plan.value = draft.plan
@@ -246,6 +249,10 @@ export const useFloorEditorStore = defineStore('floor-editor', () => {
     paste()
   }
 
+  function notePlaced(placed: { id: string; gasId: string; basis: GasDefaultBasis }): void {
+    lastPlaced.value = placed
+  }
+
   function setTool(next: EditorTool): void {
     tool.value = canEdit.value || next === 'select' ? next : 'select'
   }
@@ -261,7 +268,7 @@ export const useFloorEditorStore = defineStore('floor-editor', () => {
 
   return {
     floor, plan, version, selection, tool, undoStack, redoStack, clipboard, saveState, saveError, loadError, isLoading,
-    restoredDraft, lastSavedAt, retryInMs, canEdit, ceilingM, problems, isValid, problemIds, selectedElements, canUndo, canRedo,
+    restoredDraft, lastSavedAt, retryInMs, lastPlaced, notePlaced, canEdit, ceilingM, problems, isValid, problemIds, selectedElements, canUndo, canRedo,
     load, commit, undo, redo, save, reloadFromServer, keepCopyAsNewFloor, select, toggleSelected, selectAll, deleteSelected,
     copySelected, paste, duplicateSelected, setTool, setFloorMeta, close,
   }

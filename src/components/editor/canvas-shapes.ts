@@ -1,4 +1,5 @@
 import type { Plan, RoomKind } from '../../../shared/floorplan/plan-schema'
+import { placeLabels, type Box, type LabelRequest } from '../../../shared/floorplan/label-placement'
 import type { SnapGuide } from '../../../shared/floorplan/snapping'
 import type { Draft, Hit } from './use-canvas-tools'
 import type { Viewport } from './use-viewport'
@@ -79,24 +80,89 @@ export function openingShapes(ctx: ShapeContext) {
       body: { points: [...a, ...b], stroke: s.stroke, strokeWidth: highlighted ? 6 : 5, dash: o.kind === 'pass_through' ? [6, 4] : s.dash,
         opacity: o.open ? 1 : 0.85, lineCap: 'butt' as const },
       ticks: o.open ? [] : [a, b].map(([x, y]) => ({ points: [x - nx, y - ny, x + nx, y + ny], stroke: s.stroke, strokeWidth: 2 })),
+      swing: o.kind === 'door' ? { points: doorSwing(a, b), stroke: s.stroke, strokeWidth: 1.25, opacity: 0.75, dash: o.open ? undefined : [3, 3],
+        lineJoin: 'round' as const, listening: false } : null,
     }
   })
 }
 
+/**
+ * A door's leaf and swing, as drawn on architectural plans: the leaf at right angles to the wall from the
+ * hinge (the first end point), then a quarter circle back to the other end. Screen pixels.
+ */
+export function doorSwing(a: readonly [number, number], b: readonly [number, number], steps = 12): number[] {
+  const ux = b[0] - a[0], uy = b[1] - a[1]
+  const r = Math.hypot(ux, uy)
+  if (r < 1e-9) return []
+  // Perpendicular to the wall, to the left of a → b on screen.
+  const vx = uy, vy = -ux
+  const pts: number[] = [a[0], a[1]]
+  for (let i = steps; i >= 0; i--) {
+    const t = (i / steps) * (Math.PI / 2)
+    pts.push(a[0] + ux * Math.cos(t) + vx * Math.sin(t), a[1] + uy * Math.cos(t) + vy * Math.sin(t))
+  }
+  return pts
+}
+
 export type ItemGlyph = 'source' | 'detector' | 'exhaust' | 'workstation'
 
-export function itemShapes(ctx: ShapeContext) {
-  const items: { id: string; glyph: ItemGlyph; x: number; y: number; label: string; ring: ReturnType<typeof strokeFor> }[] = []
-  const add = (glyph: ItemGlyph, list: { id: string; position: readonly [number, number] }[], label: (i: number) => string) =>
-    list.forEach((e, i) => {
+const ITEM_LABEL_FONT = 12
+const ITEM_LABEL_H = 16
+const LABEL_MAX_CHARS = 26
+
+/** Rough width of bold 12 px Atkinson Hyperlegible text; enough to keep labels apart. */
+export function labelWidth(text: string, fontSize = ITEM_LABEL_FONT): number {
+  return Math.ceil(text.length * fontSize * 0.58) + 4
+}
+function clip(text: string): string {
+  return text.length > LABEL_MAX_CHARS ? `${text.slice(0, LABEL_MAX_CHARS - 1).trimEnd()}…` : text
+}
+
+export interface ItemShape {
+  id: string
+  glyph: ItemGlyph
+  x: number
+  y: number
+  /** The label's text and its top-left corner relative to the glyph; null when there is no room for it. */
+  label: { text: string; dx: number; dy: number } | null
+  ring: ReturnType<typeof strokeFor>
+}
+
+/**
+ * Placed items with their labels: the element's name (a source or detector without one shows its gas; a
+ * workstation without one says so). Labels are placed greedily so that they do not overlap each other, the
+ * glyphs or the room names: the selection first, then sources, detectors, workstations and exhausts, whose
+ * labels are left out when there is no free place.
+ */
+export function itemShapes(ctx: ShapeContext): ItemShape[] {
+  const items: (ItemShape & { request: Omit<LabelRequest, 'id' | 'x' | 'y' | 'h' | 'w'> | null; rank: number })[] = []
+  const add = (glyph: ItemGlyph, rank: number, list: readonly { id: string; name: string; position: readonly [number, number]; gasId?: string }[],
+    fallback: (e: { gasId?: string }) => string, optional = false) =>
+    list.forEach((e) => {
       const [x, y] = ctx.vp.toScreen(e.position)
-      items.push({ id: e.id, glyph, x, y, label: label(i), ring: strokeFor(ctx, e.id, '#ffffff') })
+      const name = e.name.trim()
+      const text = clip(name || fallback(e))
+      const alt = name && e.gasId && e.gasId !== text ? { text: e.gasId, w: labelWidth(e.gasId) } : undefined
+      items.push({ id: e.id, glyph, x, y, label: null, ring: strokeFor(ctx, e.id, '#ffffff'), rank: ctx.selected.has(e.id) ? -1 : rank,
+        request: text ? { text, alt, optional } : null })
     })
-  add('exhaust', ctx.plan.exhausts, () => '')
-  add('workstation', ctx.plan.workstations, () => '')
-  add('detector', ctx.plan.detectors, (i) => ctx.plan.detectors[i]!.gasId)
-  add('source', ctx.plan.sources, (i) => ctx.plan.sources[i]!.gasId)
-  return items
+  add('exhaust', 3, ctx.plan.exhausts, () => '', true)
+  add('workstation', 2, ctx.plan.workstations, () => 'Workstation')
+  add('detector', 1, ctx.plan.detectors, (e) => e.gasId ?? '')
+  add('source', 0, ctx.plan.sources, (e) => e.gasId ?? '')
+
+  const glyphs: Box[] = items.map((i) => ({ x: i.x - 10, y: i.y - 10, w: 20, h: 20 }))
+  const roomLabels: Box[] = roomShapes(ctx).map((r) => ({ x: r.label.x, y: r.label.y, w: Math.min(r.label.width, labelWidth(r.label.text, 13)), h: 17 }))
+  const requests: LabelRequest[] = items
+    .filter((i) => i.request)
+    .sort((a, b) => a.rank - b.rank)
+    .map((i) => ({ id: i.id, x: i.x, y: i.y, h: ITEM_LABEL_H, w: labelWidth(i.request!.text), ...i.request! }))
+  const placed = new Map(placeLabels(requests, { gap: 12, obstacles: [...glyphs, ...roomLabels],
+    bounds: { x: 0, y: 0, w: ctx.vp.view.width, h: ctx.vp.view.height } }).map((p) => [p.id, p]))
+  return items.map(({ request: _r, rank: _k, ...item }) => {
+    const p = placed.get(item.id)
+    return { ...item, label: p ? { text: p.text, dx: p.x - item.x, dy: p.y - item.y } : null }
+  })
 }
 
 export function handleShapes(ctx: ShapeContext) {

@@ -1,7 +1,7 @@
 import { computed, ref, shallowRef, type Ref } from 'vue'
 import { distancePointSegment, pointInPolygon, type Point } from '../../../shared/geometry/polygon'
 import {
-  centroid, findElement, insertVertex, makeElement, moveVertex, rectangle, removeVertex, replaceElement, translateElements,
+  centroid, defaultGas, findElement, insertVertex, makeElement, moveVertex, rectangle, removeVertex, replaceElement, translateElements,
   type PlanElement,
 } from '../../../shared/floorplan/plan-edit'
 import type { Plan, Room } from '../../../shared/floorplan/plan-schema'
@@ -168,7 +168,8 @@ export function useCanvasTools(store: Store, vp: Viewport, opts: { snapEnabled: 
       case 'exhaust':
       case 'workstation': {
         const p = snap(raw).point
-        const lastGas = store.plan.sources.at(-1)?.gasId ?? store.plan.detectors.at(-1)?.gasId
+        const gas = defaultGas(store.plan)
+        const lastGas = gas.gasId
         const element =
           tool === 'source' ? makeElement.source(store.plan, p, lastGas)
             : tool === 'detector' ? makeElement.detector(store.plan, p, lastGas)
@@ -177,6 +178,7 @@ export function useCanvasTools(store: Store, vp: Viewport, opts: { snapEnabled: 
         const collection = tool === 'source' ? 'sources' : tool === 'detector' ? 'detectors' : tool === 'exhaust' ? 'exhausts' : 'workstations'
         store.commit({ ...store.plan, [collection]: [...store.plan[collection], element] })
         store.select([element.id])
+        if (tool === 'source' || tool === 'detector') store.notePlaced({ id: element.id, gasId: gas.gasId, basis: gas.basis })
         store.setTool('select')
         return
       }

@@ -7,6 +7,8 @@ import type { Point } from '../../../shared/geometry/polygon'
  */
 export function useViewport() {
   const view = reactive({ scale: 40, originX: 60, originY: 480, width: 800, height: 520 })
+  /** True while the view is as `fit` left it (no zoom or pan since): a resize then fits again. */
+  let fitted = false
 
   const toScreen = (p: readonly [number, number]): [number, number] => [view.originX + p[0] * view.scale, view.originY - p[1] * view.scale]
   const toWorld = (sx: number, sy: number): Point => [(sx - view.originX) / view.scale, (view.originY - sy) / view.scale]
@@ -15,6 +17,7 @@ export function useViewport() {
 
   /** Zoom by `factor` keeping the world point under (sx, sy) fixed. */
   function zoomAt(sx: number, sy: number, factor: number): void {
+    fitted = false
     const next = Math.min(800, Math.max(4, view.scale * factor))
     const [wx, wy] = toWorld(sx, sy)
     view.scale = next
@@ -23,6 +26,7 @@ export function useViewport() {
   }
 
   function panBy(dx: number, dy: number): void {
+    if (dx || dy) fitted = false
     view.originX += dx
     view.originY += dy
   }
@@ -34,6 +38,21 @@ export function useViewport() {
     view.scale = Math.min(800, Math.max(4, Math.min((view.width - 2 * margin) / w, (view.height - 2 * margin) / h)))
     view.originX = (view.width - w * view.scale) / 2 - x0 * view.scale
     view.originY = (view.height + h * view.scale) / 2 + y0 * view.scale
+    fitted = true
+  }
+
+  /**
+   * The canvas changed size. Returns true when the caller should fit again (the view was fitted);
+   * otherwise keeps the plan point at the centre where it was.
+   */
+  function resize(width: number, height: number): boolean {
+    const dx = (width - view.width) / 2, dy = (height - view.height) / 2
+    view.width = width
+    view.height = height
+    if (fitted) return true
+    view.originX += dx
+    view.originY += dy
+    return false
   }
 
   /** A "nice" scale bar length (1, 2 or 5 × 10^n metres) about `targetPx` pixels long. */
@@ -44,7 +63,7 @@ export function useViewport() {
     return { metres, px: metres * view.scale }
   })
 
-  return { view, toScreen, toWorld, pxToM, zoomAt, panBy, fit, scaleBar }
+  return { view, toScreen, toWorld, pxToM, zoomAt, panBy, fit, resize, scaleBar }
 }
 
 export type Viewport = ReturnType<typeof useViewport>
