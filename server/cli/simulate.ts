@@ -20,8 +20,10 @@ try {
   fail(`${file}: ${e instanceof SyntaxError ? 'invalid JSON: ' + e.message : (e as Error).message}`, 2)
 }
 try {
-  const result = simulate(input)
-  process.stdout.write(JSON.stringify(resultToJson(result, { fields: args.includes('--fields') })) + '\n')
+  const fields = args.includes('--fields')
+  // Without --fields the per-output plan snapshots are never printed: skip them.
+  const result = simulate(input, { planSnapshots: fields })
+  process.stdout.write(JSON.stringify(resultToJson(result, { fields })) + '\n')
 } catch (e) {
   if (e instanceof ScenarioError) fail(e.message, 2)
   fail(`error: ${(e as Error).message}`, 1)

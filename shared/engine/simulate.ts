@@ -18,6 +18,10 @@ export interface SimulateOptions {
   solver?: 'implicit' | 'explicit-baseline'
   /** Wall clock in ms (injectable for tests). @default performance.now */
   now?: () => number
+  /** Record the per-output plan snapshots (`breathing_ppm`, `column_max_ppm`). false leaves both
+   * arrays empty and skips their interpolation pass at every output (the CLI without --fields).
+   * Probes, fronts, peaks and TWA are unaffected. @default true */
+  planSnapshots?: boolean
 }
 
 /** Time series and summary at one probe. */
@@ -103,8 +107,9 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const probePrev = new Float64Array(m.probes.length)
   const probeFirst = m.probes.map(() => new Float64Array(nThr).fill(Infinity))
   const probePeak = new Float64Array(m.probes.length), probePeakT = new Float64Array(m.probes.length)
+  const snapshots = opts.planSnapshots !== false
   const breathing: Float32Array[] = [], columnMax: Float32Array[] = []
-  for (let k = 0; k < nOut; k++) { breathing.push(new Float32Array(nPlan)); columnMax.push(new Float32Array(nPlan)) }
+  if (snapshots) for (let k = 0; k < nOut; k++) { breathing.push(new Float32Array(nPlan)); columnMax.push(new Float32Array(nPlan)) }
   const bhPrev = new Float64Array(nPlan)
   const crossed = new Uint8Array(nPlan)
   const fronts = Array.from({ length: nThr }, () => new Float32Array(nPlan).fill(Infinity))
@@ -149,11 +154,10 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
    * interpolation through the last three states (linear when h1, the step before, is unknown).
    */
   const recordOutput = (t: number, theta: number, h: number, h1: number) => {
-    const bh = breathing[outIndex]!, cm = columnMax[outIndex]!
     const g = h1 > 0 ? (theta * h) / (h + h1) : 0
     const alpha = (1 - theta) * (1 + g), beta = h1 > 0 ? ((1 - theta) * g * h) / h1 : 0
     const at = (p: number) => { const v = c[p]! - alpha * dPrev[p]! + beta * dPrev2[p]!; return v > 0 ? v : 0 }
-    snapshotPlan(c, dPrev, dPrev2, alpha, beta, m.roomOfPlan, nPlan, nz, k0, k1, wb, bh, cm)
+    if (snapshots) snapshotPlan(c, dPrev, dPrev2, alpha, beta, m.roomOfPlan, nPlan, nz, k0, k1, wb, breathing[outIndex]!, columnMax[outIndex]!)
     for (let q = 0; q < m.probes.length; q++) {
       const pr = m.probes[q]!
       let v = 0
