@@ -1,3 +1,4 @@
+import { titleWithoutDrillPrefix } from '../../shared/drills/compare'
 import { createHash, createHmac, timingSafeEqual } from 'node:crypto'
 import { createEvent } from 'ics'
 import { formatLocal } from '../../shared/drills/time'
@@ -68,7 +69,7 @@ export function drillIcs(drill: Drill, to: { name: string; email: string }, meth
     sequence,
     method,
     status: method === 'CANCEL' ? 'CANCELLED' : 'CONFIRMED',
-    title: `${method === 'CANCEL' ? 'Cancelled: ' : ''}Drill: ${drill.title}`,
+    title: `${method === 'CANCEL' ? 'Cancelled: ' : ''}Drill: ${titleWithoutDrillPrefix(drill.title)}`,
     description,
     location: drill.location,
     start: [s.getUTCFullYear(), s.getUTCMonth() + 1, s.getUTCDate(), s.getUTCHours(), s.getUTCMinutes()],
@@ -83,10 +84,10 @@ export function drillIcs(drill: Drill, to: { name: string; email: string }, meth
 }
 
 const SUBJECT: Record<NoticeKind, (t: string) => string> = {
-  invitation: (t) => `Drill invitation: ${t}`,
-  moved: (t) => `Drill moved: ${t}`,
-  cancelled: (t) => `Drill cancelled: ${t}`,
-  reminder: (t) => `Reminder: drill ${t}`,
+  invitation: (t) => `Drill invitation: ${titleWithoutDrillPrefix(t)}`,
+  moved: (t) => `Drill moved: ${titleWithoutDrillPrefix(t)}`,
+  cancelled: (t) => `Drill cancelled: ${titleWithoutDrillPrefix(t)}`,
+  reminder: (t) => `Reminder: drill ${titleWithoutDrillPrefix(t)}`,
 }
 
 /**

@@ -42,3 +42,32 @@ export function nextDrillDue(lastHeldAt: Date | null, frequencyDays: number, now
   const next = lastHeldAt ? new Date(lastHeldAt.getTime() + frequencyDays * 86_400_000) : now
   return { nextDueAt: next, overdue: !lastHeldAt || next.getTime() < now.getTime() }
 }
+
+/** The plan predicted no time at all (the critical level comes before the alarm is heard): a drill cannot be "slower". */
+export const TOO_LATE_LABEL = 'Detection too late to evacuate in time'
+export const TOO_LATE_FINDING =
+  'The plan predicts no time left for this step: the critical level is reached before the alarm is heard, so no drill can finish in time. ' +
+  'This is a finding to act on at the detection side (detector position or set points, a faster shut-off, fewer people near the source), not a slow drill.'
+
+/** The verdict in words; a zero prediction is about detection, not about the people drilling. */
+export function verdictLabel(verdict: Comparison['verdict'], predictedS: number | null): string {
+  return verdict === 'over' && predictedS === 0 ? TOO_LATE_LABEL : VERDICT_LABELS[verdict]
+}
+export const isTooLate = (c: { verdict: Comparison['verdict']; predictedS?: number | null; targetS?: number | null }) =>
+  c.verdict === 'over' && (c.predictedS ?? c.targetS) === 0
+
+/** A step's verdict while the record is typed: the measured time against the step's target. */
+export function stepVerdict(targetS: number | null, atS: number | null, done: boolean): Comparison['verdict'] {
+  return done ? verdict(targetS, atS) : 'not_measured'
+}
+
+/** Participant sources in words for the roster. */
+export const PARTICIPANT_SOURCE_LABELS: Record<string, string> = { person: 'by name', floor_staff: 'as floor staff', floor_managers: 'as lab manager', guest: 'as guest' }
+
+/** The notice version people see (the calendar SEQUENCE counts from 0). */
+export const noticeVersion = (sequence: number) => `notice version ${sequence + 1}`
+
+/** The title proposed for a drill of a plan: the plan's title (notices and calendar entries add "Drill" themselves). */
+export const defaultDrillTitle = (planTitle: string) => planTitle
+/** A drill title for notice subjects and calendar entries that add "Drill" themselves: a leading "Drill:" is not repeated. */
+export const titleWithoutDrillPrefix = (title: string) => title.replace(/^\s*drill\s*:\s*/i, '').trim() || title

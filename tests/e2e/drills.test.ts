@@ -52,7 +52,7 @@ describe('drills in the browser', () => {
     await signIn(page, acct('ehs_officer').email, acct('ehs_officer').password)
     await page.getByRole('link', { name: 'Schedule a drill' }).click()
     await page.getByRole('heading', { name: 'Schedule a drill' }).waitFor()
-    await expect.poll(() => page.getByLabel('Title').inputValue()).toBe('Drill: Ammonia cylinder plan')
+    await expect.poll(() => page.getByLabel('Title').inputValue()).toBe('Ammonia cylinder plan')
     await page.getByLabel('Title').fill('Quarterly NH3 drill <gas room A>')
     await page.getByLabel('Time', { exact: true }).fill('09:30')
     await page.getByLabel('Scenario to enact').fill('Detector A alarms low at a simulated ammonia leak in gas room A; the warden runs the evacuation.')
@@ -93,13 +93,22 @@ describe('drills in the browser', () => {
     // After the drill: record the measured times and a finding (the server's drill clock moves past the start)
     const drillId = Number(new URL(page.url()).pathname.split('/').pop())
     const detail = (await (await apiSignIn(server.rt, acct('ehs_officer').email, acct('ehs_officer').password)).get(`/api/drills/${drillId}`).expect(200)).body
+    // Before the start the record cannot be completed: the form says so and only saves progress
+    await page.getByTestId('drill-not-started').waitFor()
+    expect(await page.getByRole('button', { name: 'Save the record' }).isDisabled()).toBe(true)
+    await page.getByTestId('drill-record').scrollIntoViewIfNeeded()
+    await shot(page, 'drills-record-before-start-1366')
     const realNow = drillClock.now
     drillClock.now = () => new Date(new Date(detail.startsAt).getTime() + 3600_000)
+    await page.clock.setSystemTime(new Date(new Date(detail.startsAt).getTime() + 3600_000))
+    await page.reload()
+    await page.getByTestId('drill-record').waitFor()
     try {
       await page.getByRole('checkbox', { name: 'Step 1 done' }).click()
       await page.getByLabel('Step 1 time in seconds').fill('0')
       await page.getByRole('checkbox', { name: 'Step 2 done' }).click()
       await page.getByLabel('Step 2 time in seconds').fill('65')
+      await expect.poll(() => page.getByTestId('step-verdict-2').textContent()).toMatch(/Slower than predicted\s*1 min 5 s against 50 s/)
       await page.getByLabel('Alarm to evacuation complete').fill('65')
       await page.getByLabel('Alarm to source isolated').fill('25')
       await page.getByLabel('Observations (hot wash)').fill('Door A approach blocked by a trolley.')

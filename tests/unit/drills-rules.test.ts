@@ -47,3 +47,27 @@ describe('measured against predicted', () => {
     expect(nextDrillDue(null, 90, now).overdue).toBe(true)
   })
 })
+
+describe('drill wording', async () => {
+  const c = await import('../../shared/drills/compare')
+  it('a zero prediction is detection coming too late, not a slow drill', () => {
+    expect(c.verdictLabel('over', 0)).toBe(c.TOO_LATE_LABEL)
+    expect(c.verdictLabel('over', 50)).toBe('Slower than predicted')
+    expect(c.verdictLabel('within', 0)).toBe('Within the predicted time')
+    expect(c.isTooLate({ verdict: 'over', predictedS: 0 })).toBe(true)
+    expect(c.isTooLate({ verdict: 'over', targetS: 0 })).toBe(true)
+    expect(c.isTooLate({ verdict: 'over', predictedS: 10 })).toBe(false)
+    expect(c.stepVerdict(50, 65, true)).toBe('over')
+    expect(c.stepVerdict(50, 40, true)).toBe('within')
+    expect(c.stepVerdict(null, 40, true)).toBe('no_prediction')
+    expect(c.stepVerdict(50, 40, false)).toBe('not_measured')
+  })
+  it('titles, notice versions and participant sources in words', () => {
+    expect(c.titleWithoutDrillPrefix('Drill: Ammonia release')).toBe('Ammonia release')
+    expect(c.titleWithoutDrillPrefix('NH3 leak drill <Bay A>')).toBe('NH3 leak drill <Bay A>')
+    expect(c.defaultDrillTitle('Ammonia release – Level 1')).not.toMatch(/^Drill:/)
+    expect(c.noticeVersion(0)).toBe('notice version 1')
+    expect(c.PARTICIPANT_SOURCE_LABELS.person).toBe('by name')
+    expect(c.PARTICIPANT_SOURCE_LABELS.floor_staff).toBe('as floor staff')
+  })
+})
