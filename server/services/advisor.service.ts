@@ -3,7 +3,7 @@ import { defaultAlarmSetPoints } from '../../shared/gases/alarm-setpoints'
 import { findGas } from '../../shared/gases/library'
 import { pointInPolygon } from '../../shared/geometry/polygon'
 import {
-  chooseCoverage, chooseMinMax, COVERAGE_GUARANTEE, gridCandidates, MINMAX_GUARANTEE, mountingHeightFor,
+  awayFromSources, chooseCoverage, chooseMinMax, COVERAGE_GUARANTEE, gridCandidates, MINMAX_GUARANTEE, mountingHeightFor, SOURCE_CLEARANCE_M,
 } from '../../shared/runs/advisor'
 import { limitIndexAt } from '../../shared/runs/limits'
 import { sampleAt } from '../../shared/runs/summarize'
@@ -51,9 +51,11 @@ export async function propose(ctx: ServiceContext, actor: Actor, floorId: number
   if (!candidates.length) throw bad('candidates', 'Pick candidate points on the plan or give a grid spacing')
   const inside = candidates.filter(([x, y]) => plan.rooms.some((r) => pointInPolygon([x, y], r.polygon)))
   if (!inside.length) throw bad('candidates', 'No candidate point is inside a room')
+  const near = awayFromSources(inside, plan.sources)
+  if (!near.kept.length) throw bad('candidates', `Every candidate point is within ${SOURCE_CLEARANCE_M} m of a leak source: detectors go near the leak point, not on it (common practice). Pick points a little farther away.`)
 
   // times[c][s]: the stored front plane of run s at the candidate's cell.
-  const times = inside.map(([x, y]) => parsed.map((p, s) => {
+  const times = near.kept.map(([x, y]) => parsed.map((p, s) => {
     const nPlan = p.meta.nx * p.meta.ny
     const plane = new Float32Array(p.fronts.buffer, p.fronts.byteOffset + limitIdx[s]! * nPlan * 4, nPlan)
     const t = sampleAt(p.meta, plane, x, y)
@@ -77,16 +79,17 @@ export async function propose(ctx: ServiceContext, actor: Actor, floorId: number
     deadlineS: req.deadlineS,
     mountingHeightM: mount.heightM,
     mountingBasis: mount.basis,
-    chosen: choice.chosen.map((c) => { const [x, y] = inside[c]!; const room = roomOf(x, y); return { position: [x, y] as [number, number], roomId: room?.id ?? null, roomName: room?.name ?? null } }),
+    chosen: choice.chosen.map((c) => { const [x, y] = near.kept[c]!; const room = roomOf(x, y); return { position: [x, y] as [number, number], roomId: room?.id ?? null, roomName: room?.name ?? null } }),
     worstTimeS: fin(choice.worst),
     coverage: choice.covered,
     perRun: parsed.map((p, s) => ({ runId: p.run.id, label: p.run.label, timeS: fin(choice.perScenario[s]!.time), byIndex: choice.perScenario[s]!.by })),
-    coverageChoice: { positions: coverage.chosen.map((c) => inside[c]!), covered: coverage.covered },
-    candidatesEvaluated: inside.length,
+    coverageChoice: { positions: coverage.chosen.map((c) => near.kept[c]!), covered: coverage.covered },
+    candidatesEvaluated: near.kept.length,
     gasId,
     alarmLowPpm: defaults[0]?.ppm ?? limit.ppm,
     alarmHighPpm: defaults[1]?.ppm ?? defaults[0]?.ppm ?? limit.ppm,
     notes: [
+      ...(near.excluded ? [`${near.excluded} candidate point${near.excluded === 1 ? ' was' : 's were'} left out for lying within ${SOURCE_CLEARANCE_M} m of a leak source: common practice puts detectors near the leak point, not on it.`] : []),
       `Times are read from the stored fronts at the breathing-height plane (${parsed[0]!.meta.breathingHeightM} m) of each run, on its ${parsed[0]!.meta.cellM} m grid; they do not include the detector's own response time (T90) or sample transport.`,
       `Mounting height when accepted: ${mount.heightM} m. ${mount.basis}.`,
       'Default set points are common practice, not a code requirement: use the site\'s own set points and the authority having jurisdiction.',

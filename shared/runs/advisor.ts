@@ -138,3 +138,12 @@ export const MINMAX_GUARANTEE = {
   greedy: 'Greedy heuristic: detectors are added one at a time, each the one that most shortens the worst-case time to alarm. This has no approximation guarantee for the worst case; a better set may exist.',
 } as const
 export const COVERAGE_GUARANTEE = 'Coverage choice: greedy on the number of runs that alarm within the deadline; coverage is monotone submodular, so this covers at least (1 − 1/e) ≈ 63 % of what the best set of this size could cover.'
+
+/** Common practice: a detector goes near a likely leak point, not on it (there it reads only the jet, and is in the way). */
+export const SOURCE_CLEARANCE_M = 1
+
+/** Candidates farther than `clearance` from every leak source, and how many were left out. */
+export function awayFromSources(candidates: [number, number][], sources: { position: [number, number] | readonly number[] }[], clearance = SOURCE_CLEARANCE_M) {
+  const kept = candidates.filter(([x, y]) => sources.every((s) => Math.hypot(x - s.position[0]!, y - s.position[1]!) > clearance))
+  return { kept, excluded: candidates.length - kept.length }
+}

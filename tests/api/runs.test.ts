@@ -185,6 +185,14 @@ describe('sweeps and the detector advisor', () => {
     // Two detectors, two leaks: one near each source, so both scenarios alarm.
     const rooms = prop.chosen.map((c: { roomId: string }) => c.roomId).sort()
     expect(rooms).toEqual(['gas-room', 'lab'])
+    // Never on a leak point: every proposed position keeps at least 1 m from every source
+    for (const c of prop.chosen as { position: [number, number] }[]) {
+      for (const src of floor.plan.sources as { position: [number, number] }[]) expect(Math.hypot(c.position[0] - src.position[0], c.position[1] - src.position[1])).toBeGreaterThan(1)
+    }
+    // A candidate picked on a source is left out, and the notes say so
+    const src0 = floor.plan.sources[0].position as [number, number]
+    const picked = (await officer.post(`/api/floors/${floorId}/advisor`).send({ runIds: req.runIds, count: 1, deadlineS: 120, candidates: [src0] }).expect(400)).body
+    expect(picked.error.fields.candidates).toMatch(/not on it/)
     await officer.post(`/api/floors/${floorId}/advisor`).send({ ...req, runIds: [999999] }).expect(400)
     await officer.post(`/api/floors/${floorId}/advisor`).send({ ...req, count: 0 }).expect(400)
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { binomial, chooseCoverage, chooseMinMax, gridCandidates, mountingHeightFor } from '../../shared/runs/advisor'
+import { awayFromSources, binomial, chooseCoverage, chooseMinMax, gridCandidates, mountingHeightFor } from '../../shared/runs/advisor'
 import { demoFloorPlan } from '../../server/seed/demo-floor'
 
 const never = Infinity
@@ -60,5 +60,14 @@ describe('candidates and mounting height', () => {
     expect(mountingHeightFor({ name: 'Chlorine', relative_density: 2.45 }, 3).heightM).toBe(0.45)
     expect(mountingHeightFor({ name: 'Ammonia', relative_density: 0.59 }, 3).heightM).toBe(2.7)
     expect(mountingHeightFor({ name: 'Nitrogen', relative_density: 0.97 }, 3).heightM).toBe(1.5)
+  })
+})
+
+describe('candidates keep clear of leak sources', () => {
+  it('drops points within 1 m of any source and counts them', () => {
+    const r = awayFromSources([[0, 0], [0.9, 0], [1.01, 0], [5, 5], [5.5, 5]], [{ position: [0, 0] }, { position: [5, 5.2] }])
+    expect(r.kept).toEqual([[1.01, 0]])
+    expect(r.excluded).toBe(4)
+    expect(awayFromSources([[3, 3]], []).kept).toEqual([[3, 3]])
   })
 })
