@@ -38,8 +38,8 @@ describe('floor-plan editor', () => {
     await server?.close()
   })
 
-  async function signedInPage(account = officer): Promise<{ page: Page; errors: string[] }> {
-    const context = await browser.newContext({ viewport: { width: 1440, height: 860 } })
+  async function signedInPage(account = officer, viewport = { width: 1440, height: 860 }): Promise<{ page: Page; errors: string[] }> {
+    const context = await browser.newContext({ viewport })
     const page = await context.newPage()
     const errors: string[] = []
     page.on('pageerror', (e) => errors.push(`pageerror: ${e.message}`))
@@ -83,6 +83,8 @@ describe('floor-plan editor', () => {
     // A source in the first room, then choose its gas in the property panel.
     await page.getByTestId('tool-source').click()
     await page.mouse.click(...at(260, 300))
+    // The first source gets N2 by default, and the property panel says so.
+    await expect.poll(() => page.getByTestId('gas-default-note').textContent()).toContain('Gas: N2 (the default for a first source)')
     await page.getByTestId('prop-gas').click()
     await page.getByRole('option', { name: /^NH3/ }).click()
 
@@ -189,10 +191,69 @@ describe('floor-plan editor', () => {
     await expect.poll(() => page.getByTestId('prop-pressure').inputValue()).toBe(String(Number((7.9e5 / 6894.757293168).toPrecision(5))))
     await page.getByTestId('editor-canvas').hover({ position: { x: 200, y: 200 } })
     await expect.poll(() => page.getByTestId('cursor-coords').textContent()).toMatch(/ft/)
+    await expect.poll(() => page.getByTestId('zoom-readout').textContent()).toMatch(/^\d+ px\/ft$/)
     await shot(page, 'editor-demo-imperial')
     await page.goto(`${server.url}/floors`)
     await expect.poll(() => page.getByText('E2E test building').count()).toBeGreaterThan(0)
     await shot(page, 'floor-list')
+    expect(errors).toEqual([])
+  })
+
+  for (const viewport of [{ width: 1366, height: 768 }, { width: 820, height: 1180 }]) {
+    it(`reads well at ${viewport.width}×${viewport.height}: whole plan in view, labels apart, default gas stated`, async () => {
+      const { page, errors } = await signedInPage(officer, viewport)
+      const w = viewport.width
+      await page.goto(`${server.url}/floors/${demoFloorId}`)
+      await expect.poll(() => page.getByTestId('problem-list').textContent()).toContain('No problems')
+      // Nothing sticks out sideways; on a tablet the canvas gets the full width (panel below it).
+      expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(w)
+      const canvasBox = (await page.getByTestId('editor-canvas').boundingBox())!
+      expect(canvasBox.width).toBeGreaterThan(w < 1024 ? w - 120 : w - 700)
+      if (w < 1024) expect(await page.getByRole('button', { name: 'Export scenario' }).textContent()).not.toContain('Export scenario')
+      await shot(page, `editor-demo-${w}`)
+
+      // A source, then a detector right on it: both labelled, apart; the detector's gas follows the source's.
+      const db = server.rt.ctx.db
+      const user = (await findUserByEmail(db, officer.email))!
+      const siteId = await ensureDemoSite(db, user.org_id, 'E2E test building')
+      const id = (await insertFloor(db, { orgId: user.org_id, siteId, name: `Narrow-screen check, a floor name long enough to need cutting short ${w}`,
+        ceilingHeightM: 3, plan: emptyPlan(), planValid: false, problems: [], userId: user.id })).id
+      await page.goto(`${server.url}/floors/${id}`)
+      await expect.poll(() => page.getByTestId('floor-title').textContent()).toContain('Narrow-screen check')
+      const box = (await page.getByTestId('editor-canvas').boundingBox())!
+      const at = (x: number, y: number) => [box.x + x, box.y + y] as const
+      await page.getByTestId('tool-room-rect').click()
+      await page.mouse.move(...at(120, 100))
+      await page.mouse.down()
+      await page.mouse.move(...at(420, 300), { steps: 6 })
+      await page.mouse.up()
+      await page.getByTestId('tool-door').click()
+      await page.mouse.move(...at(260, 300), { steps: 3 })
+      await page.mouse.click(...at(262, 300))
+      await page.getByTestId('tool-source').click()
+      await page.mouse.click(...at(250, 200))
+      await page.getByTestId('prop-gas').click()
+      await page.getByRole('option', { name: /^NH3/ }).click()
+      await page.getByTestId('tool-detector').click()
+      await page.mouse.click(...at(252, 202))
+      await expect.poll(() => page.getByTestId('gas-default-note').textContent()).toContain('Gas: NH3 (the same as the last source)')
+      await shot(page, `editor-detector-placed-${w}`)
+      await page.getByTestId('tool-workstation').click()
+      await page.mouse.click(...at(330, 160))
+      await page.mouse.click(...at(5, 5))
+      await shot(page, `editor-items-${w}`)
+      expect(errors).toEqual([])
+    })
+  }
+
+  it('refits the plan when the window narrows to a tablet', async () => {
+    const { page, errors } = await signedInPage(officer, { width: 1366, height: 768 })
+    await page.goto(`${server.url}/floors/${demoFloorId}`)
+    await expect.poll(() => page.getByTestId('problem-list').textContent()).toContain('No problems')
+    const wide = await page.getByTestId('zoom-readout').textContent()
+    await page.setViewportSize({ width: 820, height: 1180 })
+    await expect.poll(() => page.getByTestId('zoom-readout').textContent()).not.toBe(wide)
+    await shot(page, 'editor-demo-resized-820')
     expect(errors).toEqual([])
   })
 

@@ -118,6 +118,13 @@ function clip(text: string): string {
   return text.length > LABEL_MAX_CHARS ? `${text.slice(0, LABEL_MAX_CHARS - 1).trimEnd()}…` : text
 }
 
+/** Bounding box of flat [x, y, x, y…] points, grown by `pad`. */
+function boxOf(points: readonly number[], pad: number): Box {
+  const xs = points.filter((_, i) => i % 2 === 0), ys = points.filter((_, i) => i % 2 === 1)
+  const x = Math.min(...xs) - pad, y = Math.min(...ys) - pad
+  return { x, y, w: Math.max(...xs) + pad - x, h: Math.max(...ys) + pad - y }
+}
+
 export interface ItemShape {
   id: string
   glyph: ItemGlyph
@@ -153,11 +160,13 @@ export function itemShapes(ctx: ShapeContext): ItemShape[] {
 
   const glyphs: Box[] = items.map((i) => ({ x: i.x - 10, y: i.y - 10, w: 20, h: 20 }))
   const roomLabels: Box[] = roomShapes(ctx).map((r) => ({ x: r.label.x, y: r.label.y, w: Math.min(r.label.width, labelWidth(r.label.text, 13)), h: 17 }))
+  // Doors and their swings too, so that a name never hides a door.
+  const doors: Box[] = openingShapes(ctx).map((o) => boxOf([...o.body.points, ...(o.swing?.points ?? [])], 3))
   const requests: LabelRequest[] = items
     .filter((i) => i.request)
     .sort((a, b) => a.rank - b.rank)
     .map((i) => ({ id: i.id, x: i.x, y: i.y, h: ITEM_LABEL_H, w: labelWidth(i.request!.text), ...i.request! }))
-  const placed = new Map(placeLabels(requests, { gap: 12, obstacles: [...glyphs, ...roomLabels],
+  const placed = new Map(placeLabels(requests, { gap: 12, obstacles: [...glyphs, ...roomLabels, ...doors],
     bounds: { x: 0, y: 0, w: ctx.vp.view.width, h: ctx.vp.view.height } }).map((p) => [p.id, p]))
   return items.map(({ request: _r, rank: _k, ...item }) => {
     const p = placed.get(item.id)
