@@ -85,7 +85,7 @@ export const managersOfFloors = (db: Db, floorIds: number[]) =>
 /** Succeeded runs of a floor that have a stored result, with their summaries. */
 export const runsWithSummaries = (db: Db, orgId: number, floorId: number, ids?: number[]) => {
   let q = db.selectFrom('runs').innerJoin('run_results', 'run_results.run_id', 'runs.id')
-    .select(['runs.id', 'runs.label', 'runs.finished_at', 'runs.floor_id', 'run_results.summary'])
+    .select(['runs.id', 'runs.label', 'runs.finished_at', 'runs.floor_id', 'runs.floor_version', 'run_results.summary'])
     .where('runs.org_id', '=', orgId).where('runs.floor_id', '=', floorId).where('runs.status', '=', 'succeeded')
     .orderBy('runs.id', 'desc').limit(200)
   if (ids) q = q.where('runs.id', 'in', ids.length ? ids : [-1])

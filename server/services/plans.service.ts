@@ -87,10 +87,17 @@ async function versionTitle(ctx: ServiceContext, planId: number, version: number
 
 /** Finished results of a floor a plan can be generated from. */
 export async function runsOfFloor(ctx: ServiceContext, actor: Actor, floorId: number) {
-  await requireVisibleFloor(ctx.db, actor, floorId)
+  const floor = await requireVisibleFloor(ctx.db, actor, floorId)
   const rows = await runsWithSummaries(ctx.db, actor.orgId, floorId)
   return {
-    runs: rows.map((r) => ({ id: r.id, label: r.label, finishedAt: iso(r.finished_at), gasName: (r.summary as RunSummary | null)?.gas?.name ?? '?' })),
+    runs: rows.map((r) => {
+      const s = r.summary as RunSummary | null
+      return {
+        id: r.id, label: r.label, finishedAt: iso(r.finished_at), gasName: s?.gas?.name ?? '?',
+        detectorCount: (s?.receptors ?? []).filter((x) => x.kind === 'detector').length,
+        floorChanged: Number(floor.version) > Number(r.floor_version),
+      }
+    }),
   }
 }
 

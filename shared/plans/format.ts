@@ -52,3 +52,9 @@ export const ISOLATION_NONE = 'no limit reached at a workstation'
 export const atEventTime = (s: number) => (s < 0.5 ? formatEventTime(s) : `at ${formatSeconds(s)}`)
 /** A stored door line's label; plans generated before names fell back read the room from the note. */
 export const doorLineLabel = (d: { name: string; note: string }) => doorLabel(d.name, d.note.match(/^Leads into (.+?)(?:, also affected|$)/)?.[1] ?? null)
+
+/** A result to choose in "Generate a plan": its label (or that it has none), gas and detector count, so similar runs can be told apart. */
+export function runChoiceText(r: { id: number; label: string; gasName: string; detectorCount?: number }): string {
+  const det = r.detectorCount === undefined ? '' : `, ${r.detectorCount === 0 ? 'no detectors' : `${r.detectorCount} detector${r.detectorCount === 1 ? '' : 's'}`}`
+  return `#${r.id} ${r.label.trim() || '(no label)'} – ${r.gasName}${det}`
+}

@@ -235,5 +235,9 @@ export const PLAN_API = {
   floorRuns: (floorId: number) => `/api/plans/runs-of-floor/${floorId}`,
 } as const
 
-export const RunChoice = z.object({ id: z.number().int(), label: z.string(), finishedAt: z.string().nullable(), gasName: z.string() })
+export const RunChoice = z.object({
+  id: z.number().int(), label: z.string(), finishedAt: z.string().nullable(), gasName: z.string(),
+  /** Detectors on the floor when the run was computed, and whether the floor plan has been saved since. */
+  detectorCount: z.number().int().optional(), floorChanged: z.boolean().optional(),
+})
 export const RunChoiceList = z.object({ runs: z.array(RunChoice) })

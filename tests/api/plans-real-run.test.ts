@@ -30,6 +30,10 @@ describe('a plan from a real run', () => {
 
     const choices = (await officer.get(`/api/plans/runs-of-floor/${floorId}`).expect(200)).body.runs
     expect(choices.map((r: { id: number }) => r.id)).toContain(run.id)
+    // Each choice says how many detectors it had and whether the floor changed since (here: not)
+    expect(choices.find((r: { id: number }) => r.id === run.id)).toMatchObject({
+      detectorCount: summary.receptors.filter((x) => x.kind === 'detector').length, floorChanged: false,
+    })
     const plan = (await officer.post('/api/plans').send({ floorId, runIds: [run.id] }).expect(201)).body
     const c = plan.current.content
     expect(c.title).toContain(summary.gas.name)
