@@ -44,7 +44,7 @@ async function buildBundle() {
   const started = Date.now()
   const res = await build({
     entryPoints: [ENTRY], absWorkingDir: ROOT, bundle: true, platform: 'node', format: 'esm', target: 'node20',
-    write: false, metafile: true, logLevel: 'silent', legalComments: 'none',
+    write: false, metafile: true, logLevel: 'silent', legalComments: 'none', minify: true, keepNames: false,
     // Bundled CommonJS dependencies may call require(): give the ESM bundle one.
     banner: { js: "import { createRequire as __dwCreateRequire } from 'node:module'; const require = __dwCreateRequire(import.meta.url);" },
   })

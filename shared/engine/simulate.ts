@@ -2,6 +2,7 @@ import type { Gas } from '../gases/gas-schema'
 import { SimulationCancelled } from './errors'
 import { applyOperator, explicitStableStep, outgoingRates } from './operator'
 import { factorSweep, solveFactored, type SweepFactor } from './factored-sweep'
+import { backSubstituteZ, fusedRhsSolveXYZf } from './fused-step'
 import { accountSinks, finishStep, scaleField, snapshotPlan, type RateWeights } from './step-kernels'
 import { buildModel, type Model } from './model'
 import type { Scenario } from './scenario-schema'
@@ -255,6 +256,37 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     }
   }
   const out = outgoingRates(m, sink)
+  // The same inputs in sparse form for the fused implicit kernel: entry e adds inAmount[inSlot[e]] to
+  // cell inCell[e] (sources first, then the returns' top cells, as addInputs applies them), grouped by
+  // x-row in CSR form (inRowStart) with the order inside each row kept.
+  const nSrc = m.sources.length
+  const inAmount = new Float64Array(nSrc + m.returns.length)
+  const inList: [number, number][] = m.sources.map((src, q) => [src.cell, q])
+  m.returns.forEach((rt, q) => { for (const p of rt.topCells) inList.push([p, nSrc + q]) })
+  const nRows = ny * nz
+  const inRowStart = new Int32Array(nRows + 1)
+  for (const [p] of inList) inRowStart[Math.floor(p / nx) + 1]++
+  for (let row = 0; row < nRows; row++) inRowStart[row + 1] += inRowStart[row]!
+  const inCell = new Int32Array(inList.length), inSlot = new Int32Array(inList.length)
+  {
+    const fill = inRowStart.slice(0, nRows)
+    for (const [p, slot] of inList) { const e = fill[Math.floor(p / nx)]!++; inCell[e] = p; inSlot[e] = slot }
+  }
+  /** addInputs for the fused kernel: the per-source and per-return amounts of this step. */
+  const inputAmounts = (dt: number, tNew: number) => {
+    for (let q = 0; q < nSrc; q++) {
+      const src = m.sources[q]!
+      const v = src.history.cumulative(tNew)
+      const add = v - released[q]!
+      if (add > 0) { inAmount[q] = add / vc; releasedTotal += add; released[q] = v } else inAmount[q] = 0
+    }
+    for (let q = 0; q < m.returns.length; q++) {
+      const rt = m.returns[q]!
+      let sum = 0
+      for (let a = 0; a < rt.bottomCells.length; a++) sum += c[rt.bottomCells[a]!]!
+      inAmount[nSrc + q] = (dt * (1 - rt.exhaustFraction) * rt.rate * sum) / rt.bottomCells.length
+    }
+  }
   /**
    * The return makes the last factor T − u vᵀ per cleanroom: u marks its top cells, v_q = Θ_q dt (1−f)
    * (w/dz) / N on its N bottom cells (Θ as for the floor outflow, so the net floor sink is exactly f·w/dz).
@@ -324,12 +356,12 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     // θ = 1/2 (Crank-Nicolson) for transport, Θ per cell for sinks (see sinkTheta). It keeps the exact
     // discrete steady state, and the sink factor is solved last so that the removal is exactly
     // dt·K·((1−Θ)C + Θ C_new) and mass closes to round-off.
-    applyOperator(m, c, out, rhs, dt)
-    addInputs(rhs, dt, tNew)
+    // Right-hand side, x and y solves and the z forward elimination fused layer by layer (the same
+    // arithmetic as applyOperator + addInputs + solveFactored ×3), then the z back substitution.
+    inputAmounts(dt, tNew)
     const f = factorsFor(dt, level)
-    solveFactored(rhs, f[0]!)
-    solveFactored(rhs, f[1]!)
-    solveFactored(rhs, f[2]!)
+    fusedRhsSolveXYZf(m, c, out, rhs, dt, f[0]!, f[1]!, f[2]!, inRowStart, inCell, inSlot, inAmount)
+    backSubstituteZ(rhs, f[2]!)
     // Sherman-Morrison for the rank-one return coupling of each cleanroom (bottom layer -> top layer).
     const corr = returnFactors.get(f)!
     for (let q = 0; q < m.returns.length; q++) {

@@ -1,0 +1,137 @@
+import type { SweepFactor } from './factored-sweep'
+import type { Model } from './model'
+
+/**
+ * The right-hand side and the first two and a half sweeps of the implicit step in one pass over the
+ * grid, layer by layer, so each layer's data is reused from cache instead of streaming the whole
+ * field through memory four times:
+ *
+ *     for each layer k:  r = dt·(−(A + K) c) + inputs   row by row (as applyOperator + addInputs)
+ *                        x-solve each row                 (as solveFactored with the x factor)
+ *                        y-solve the layer                (as solveFactored with the y factor)
+ *                        forward elimination of z at k    (first half of the z solve)
+ *
+ * Every cell sees exactly the same floating-point operations in the same order as the separate
+ * kernels (the sparse inputs are added per cell in the same order), so results are bit-identical;
+ * the caller finishes with {@link backSubstituteZ}. Allocates nothing.
+ *
+ * Inputs are sparse: entry e adds amount[entryAmount[e]] to cell entryCell[e]; entries are grouped by
+ * x-row (row = cell / nx) in CSR form rowStart (length ny·nz + 1), in the order addInputs applies them.
+ */
+export function fusedRhsSolveXYZf(
+  m: Model, c: Float64Array, out: Float64Array, r: Float64Array, dt: number,
+  fx: SweepFactor, fy: SweepFactor, fz: SweepFactor,
+  rowStart: Int32Array, entryCell: Int32Array, entryAmount: Int32Array, amount: Float64Array,
+): void {
+  const { nx, ny, nz } = m
+  const nPlan = nx * ny
+  const ax = fx.a, fwx = fx.fwd, bwx = fx.bwd, dtx = fx.dt
+  const ay = fy.a, fwy = fy.fwd, bwy = fy.bwd, dty = fy.dt
+  const az = fz.a, fwz = fz.fwd, dtz = fz.dt
+  for (let k = 0; k < nz; k++) {
+    const interiorLayer = k > 0 && k < nz - 1
+    // 1. Right-hand side and x-solve, four rows at a time (their x-lines are independent chains,
+    //    eliminated together so the CPU overlaps them; same arithmetic as one at a time).
+    let j = 0
+    for (; j < ny; ) {
+      const rows = j + 4 <= ny ? 4 : 1
+      const row = j + ny * k
+      const base = row * nx
+      rhsRange(m, c, out, r, dt, base, base + rows * nx, interiorLayer)
+      for (let e = rowStart[row]!, e1 = rowStart[row + rows]!; e < e1; e++) r[entryCell[e]!] += amount[entryAmount[e]!]!
+      if (rows === 4) {
+        const b0 = base, b1 = b0 + nx, b2 = b1 + nx, b3 = b2 + nx
+        let y0 = r[b0]! * ax[b0]!, y1 = r[b1]! * ax[b1]!, y2 = r[b2]! * ax[b2]!, y3 = r[b3]! * ax[b3]!
+        r[b0] = y0; r[b1] = y1; r[b2] = y2; r[b3] = y3
+        for (let i = 1; i < nx; i++) {
+          const p0 = b0 + i, p1 = b1 + i, p2 = b2 + i, p3 = b3 + i
+          y0 = (r[p0]! + dtx * fwx[p0 - 1]! * y0) * ax[p0]!; r[p0] = y0
+          y1 = (r[p1]! + dtx * fwx[p1 - 1]! * y1) * ax[p1]!; r[p1] = y1
+          y2 = (r[p2]! + dtx * fwx[p2 - 1]! * y2) * ax[p2]!; r[p2] = y2
+          y3 = (r[p3]! + dtx * fwx[p3 - 1]! * y3) * ax[p3]!; r[p3] = y3
+        }
+        for (let i = nx - 2; i >= 0; i--) {
+          const p0 = b0 + i, p1 = b1 + i, p2 = b2 + i, p3 = b3 + i
+          y0 = r[p0]! + dtx * bwx[p0]! * ax[p0]! * y0; r[p0] = y0
+          y1 = r[p1]! + dtx * bwx[p1]! * ax[p1]! * y1; r[p1] = y1
+          y2 = r[p2]! + dtx * bwx[p2]! * ax[p2]! * y2; r[p2] = y2
+          y3 = r[p3]! + dtx * bwx[p3]! * ax[p3]! * y3; r[p3] = y3
+        }
+      } else {
+        const end = base + nx
+        let y = r[base]! * ax[base]!
+        r[base] = y
+        for (let p = base + 1; p < end; p++) {
+          y = (r[p]! + dtx * fwx[p - 1]! * y) * ax[p]!
+          r[p] = y
+        }
+        let x = r[end - 1]!
+        for (let p = end - 2; p >= base; p--) {
+          x = r[p]! + dtx * bwx[p]! * ax[p]! * x
+          r[p] = x
+        }
+      }
+      j += rows
+    }
+    // 2. y-solve of layer k: lines along y, vectorised over x.
+    const lb = k * nPlan
+    for (let q = 0; q < nx; q++) r[lb + q] = r[lb + q]! * ay[lb + q]!
+    for (let jj = 1; jj < ny; jj++) {
+      const rowp = lb + jj * nx
+      for (let q = 0; q < nx; q++) {
+        const p = rowp + q
+        r[p] = (r[p]! + dty * fwy[p - nx]! * r[p - nx]!) * ay[p]!
+      }
+    }
+    for (let jj = ny - 2; jj >= 0; jj--) {
+      const rowp = lb + jj * nx
+      for (let q = 0; q < nx; q++) {
+        const p = rowp + q
+        r[p] = r[p]! + dty * bwy[p]! * ay[p]! * r[p + nx]!
+      }
+    }
+    // 3. z forward elimination at layer k (needs layer k − 1, already eliminated).
+    if (k === 0) {
+      for (let p = 0; p < nPlan; p++) r[p] = r[p]! * az[p]!
+    } else {
+      const e = lb + nPlan
+      for (let p = lb; p < e; p++) r[p] = (r[p]! + dtz * fwz[p - nPlan]! * r[p - nPlan]!) * az[p]!
+    }
+  }
+}
+
+/** r[p] = dt·(inflow − out·c) on cells [p0, p1) of one layer (as applyOperator). */
+function rhsRange(m: Model, c: Float64Array, out: Float64Array, r: Float64Array, dt: number, p0: number, p1: number, interior: boolean): void {
+  const { nx, ny, nz, fwdX, bwdX, fwdY, bwdY, fwdZ, bwdZ } = m
+  const nPlan = nx * ny, n = nPlan * nz
+  if (interior) {
+    for (let p = p0; p < p1; p++) {
+      const inflow = bwdX[p]! * c[p + 1]! + fwdX[p - 1]! * c[p - 1]! + bwdY[p]! * c[p + nx]! + fwdY[p - nx]! * c[p - nx]! +
+        bwdZ[p]! * c[p + nPlan]! + fwdZ[p - nPlan]! * c[p - nPlan]!
+      r[p] = dt * (inflow - out[p]! * c[p]!)
+    }
+    return
+  }
+  for (let p = p0; p < p1; p++) {
+    let inflow = 0
+    if (p + 1 < n) inflow += bwdX[p]! * c[p + 1]!
+    if (p >= 1) inflow += fwdX[p - 1]! * c[p - 1]!
+    if (p + nx < n) inflow += bwdY[p]! * c[p + nx]!
+    if (p >= nx) inflow += fwdY[p - nx]! * c[p - nx]!
+    if (p + nPlan < n) inflow += bwdZ[p]! * c[p + nPlan]!
+    if (p >= nPlan) inflow += fwdZ[p - nPlan]! * c[p - nPlan]!
+    r[p] = dt * (inflow - out[p]! * c[p]!)
+  }
+}
+
+/** Second half of the z solve: back substitution over the layers (as in solveFactored). */
+export function backSubstituteZ(r: Float64Array, fz: SweepFactor): void {
+  const { a, bwd, dt, n: nz, inner: nPlan } = fz
+  for (let k = nz - 2; k >= 0; k--) {
+    const row = k * nPlan
+    for (let q = 0; q < nPlan; q++) {
+      const p = row + q
+      r[p] = r[p]! + dt * bwd[p]! * a[p]! * r[p + nPlan]!
+    }
+  }
+}
