@@ -168,10 +168,12 @@ export function itemShapes(ctx: ShapeContext): ItemShape[] {
     .map((i) => ({ id: i.id, x: i.x, y: i.y, h: ITEM_LABEL_H, w: labelWidth(i.request!.text), ...i.request! }))
   const placed = new Map(placeLabels(requests, { gap: 12, obstacles: [...glyphs, ...roomLabels, ...doors],
     bounds: { x: 0, y: 0, w: ctx.vp.view.width, h: ctx.vp.view.height } }).map((p) => [p.id, p]))
-  return items.map(({ request: _r, rank: _k, ...item }) => {
+  // Drawn in this order: the selection last, so an item placed right on another stays visible while selected.
+  const shapes = items.map(({ request: _r, rank: _k, ...item }) => {
     const p = placed.get(item.id)
     return { ...item, label: p ? { text: p.text, dx: p.x - item.x, dy: p.y - item.y } : null }
   })
+  return [...shapes.filter((i) => !ctx.selected.has(i.id)), ...shapes.filter((i) => ctx.selected.has(i.id))]
 }
 
 export function handleShapes(ctx: ShapeContext) {
