@@ -57,6 +57,11 @@ describe('drills in the browser', () => {
     await page.getByLabel('Time', { exact: true }).fill('09:30')
     await page.getByLabel('Scenario to enact').fill('Detector A alarms low at a simulated ammonia leak in gas room A; the warden runs the evacuation.')
     await shot(page, 'drills-schedule-1366')
+    await page.setViewportSize({ width: 820, height: 1180 })
+    // The time stays readable at tablet width
+    expect((await page.getByLabel('Time', { exact: true }).boundingBox())!.width).toBeGreaterThan(120)
+    await shot(page, 'drills-schedule-820')
+    await page.setViewportSize(LAPTOP)
     await page.getByRole('button', { name: 'Schedule and send invitations' }).click()
     await page.getByTestId('drill-title').waitFor()
     await expect.poll(() => page.getByTestId('drill-title').textContent()).toBe('Quarterly NH3 drill <gas room A>')
@@ -98,6 +103,12 @@ describe('drills in the browser', () => {
     expect(await page.getByRole('button', { name: 'Save the record' }).isDisabled()).toBe(true)
     await page.getByTestId('drill-record').scrollIntoViewIfNeeded()
     await shot(page, 'drills-record-before-start-1366')
+    await page.setViewportSize({ width: 820, height: 1180 })
+    await page.getByTestId('drill-record').scrollIntoViewIfNeeded()
+    await shot(page, 'drills-record-before-start-820')
+    await page.setViewportSize(LAPTOP)
+    expect(await page.getByTestId('drill-roster').textContent()).toMatch(/as floor staff|by name/)
+    expect(await page.getByText(/calendar sequence/).count()).toBe(0)
     const realNow = drillClock.now
     drillClock.now = () => new Date(new Date(detail.startsAt).getTime() + 3600_000)
     await page.clock.setSystemTime(new Date(new Date(detail.startsAt).getTime() + 3600_000))
@@ -123,6 +134,10 @@ describe('drills in the browser', () => {
       await page.getByRole('button', { name: 'Add the finding' }).click()
       await expect.poll(() => page.getByTestId('drill-findings').textContent()).toContain('weekly walk-through')
       await shot(page, 'drills-recorded-full', true)
+      await page.setViewportSize({ width: 820, height: 1180 })
+      await page.getByTestId('drill-record').scrollIntoViewIfNeeded()
+      await shot(page, 'drills-recorded-record-820')
+      await page.setViewportSize(LAPTOP)
     } finally {
       drillClock.now = realNow
     }
