@@ -226,6 +226,7 @@ export async function getDrill(ctx: ServiceContext, actor: Actor, id: number): P
     findings: findingRows.map((f) => toFinding(f, today)),
     canManage: manage,
     mine,
+    hasStarted: new Date(d.starts_at).getTime() <= drillClock.now().getTime(),
   }
 }
 

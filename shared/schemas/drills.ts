@@ -188,6 +188,8 @@ export const DrillDetail = DrillSummary.extend({
   canManage: z.boolean(),
   /** The caller is a participant (staff see only these drills). */
   mine: z.boolean(),
+  /** The start time has passed by the server's clock, so the record can be completed. */
+  hasStarted: z.boolean().optional(),
 })
 export type DrillDetail = z.infer<typeof DrillDetail>
 

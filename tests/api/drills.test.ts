@@ -214,7 +214,11 @@ describe('drills', () => {
 
   it('records the drill and compares the measured times with the predictions', async () => {
     await officer.put(`/api/drills/${drillId}/record`).send({ steps: [], measured: {}, completed: true }).expect(400)
+    // Before the start: progress can be saved without completing; the detail says it has not started
+    const progress = await officer.put(`/api/drills/${drillId}/record`).send({ steps: [], measured: {}, observations: 'Prepared the stopwatch', completed: false }).expect(200)
+    expect(progress.body).toMatchObject({ status: 'scheduled', hasStarted: false, record: { observations: 'Prepared the stopwatch' } })
     drillClock.now = () => new Date(startsAt.getTime() + 3600_000)
+    expect((await officer.get(`/api/drills/${drillId}`).expect(200)).body.hasStarted).toBe(true)
     const bad = await officer.put(`/api/drills/${drillId}/record`).send({ steps: [{ stepId: 'nope', done: true }], measured: {} }).expect(400)
     expect(bad.body.error.fields).toHaveProperty('steps.0.stepId')
     const rec = await officer.put(`/api/drills/${drillId}/record`).send({
