@@ -8,6 +8,9 @@
 export interface SweepFactor {
   /** Inverse pivots. */
   a: Float64Array
+  /** Back-substitution multipliers dt·bwd[p]·a[p] (evaluated in that order, so using them is
+   * bit-identical to forming the product in the solve, two multiplications fewer per cell). */
+  u: Float64Array
   fwd: Float32Array
   bwd: Float32Array
   dt: number
@@ -24,7 +27,7 @@ export interface SweepFactor {
  */
 export function factorSweep(fwd: Float32Array, bwd: Float32Array, dt: number, outer: number, n: number, inner: number, diagExtra: Float64Array | null, into?: SweepFactor): SweepFactor {
   const size = outer * n * inner
-  const f = into ?? { a: new Float64Array(size), fwd, bwd, dt, outer, n, inner }
+  const f = into ?? { a: new Float64Array(size), u: new Float64Array(size), fwd, bwd, dt, outer, n, inner }
   f.fwd = fwd; f.bwd = bwd; f.dt = dt; f.outer = outer; f.n = n; f.inner = inner
   const a = f.a
   const block = n * inner
@@ -45,12 +48,14 @@ export function factorSweep(fwd: Float32Array, bwd: Float32Array, dt: number, ou
       }
     }
   }
+  const u = f.u
+  for (let p = 0; p < size; p++) u[p] = dt * bwd[p]! * a[p]!
   return f
 }
 
 /** Solve (I + dt·A + diag) x = r in place with a factor from factorSweep. */
 export function solveFactored(r: Float64Array, f: SweepFactor): void {
-  const { a, fwd, bwd, dt, outer, n, inner } = f
+  const { a, u, fwd, dt, outer, n, inner } = f
   const block = n * inner
   if (inner === 1) {
     // Lines along x: each line is a serial recurrence, so its cost is the latency of the chain.
@@ -70,10 +75,10 @@ export function solveFactored(r: Float64Array, f: SweepFactor): void {
       }
       for (let m = n - 2; m >= 0; m--) {
         const p0 = b0 + m, p1 = b1 + m, p2 = b2 + m, p3 = b3 + m
-        y0 = r[p0]! + dt * bwd[p0]! * a[p0]! * y0; r[p0] = y0
-        y1 = r[p1]! + dt * bwd[p1]! * a[p1]! * y1; r[p1] = y1
-        y2 = r[p2]! + dt * bwd[p2]! * a[p2]! * y2; r[p2] = y2
-        y3 = r[p3]! + dt * bwd[p3]! * a[p3]! * y3; r[p3] = y3
+        y0 = r[p0]! + u[p0]! * y0; r[p0] = y0
+        y1 = r[p1]! + u[p1]! * y1; r[p1] = y1
+        y2 = r[p2]! + u[p2]! * y2; r[p2] = y2
+        y3 = r[p3]! + u[p3]! * y3; r[p3] = y3
       }
     }
     for (; o < outer; o++) {
@@ -86,7 +91,7 @@ export function solveFactored(r: Float64Array, f: SweepFactor): void {
       }
       let x = r[end - 1]!
       for (let p = end - 2; p >= base; p--) {
-        x = r[p]! + dt * bwd[p]! * a[p]! * x
+        x = r[p]! + u[p]! * x
         r[p] = x
       }
     }
@@ -106,7 +111,7 @@ export function solveFactored(r: Float64Array, f: SweepFactor): void {
       const row = base + m * inner
       for (let q = 0; q < inner; q++) {
         const p = row + q
-        r[p] = r[p]! + dt * bwd[p]! * a[p]! * r[p + inner]!
+        r[p] = r[p]! + u[p]! * r[p + inner]!
       }
     }
   }

@@ -25,8 +25,8 @@ export function fusedRhsSolveXYZf(
 ): void {
   const { nx, ny, nz } = m
   const nPlan = nx * ny
-  const ax = fx.a, fwx = fx.fwd, bwx = fx.bwd, dtx = fx.dt
-  const ay = fy.a, fwy = fy.fwd, bwy = fy.bwd, dty = fy.dt
+  const ax = fx.a, fwx = fx.fwd, ux = fx.u, dtx = fx.dt
+  const ay = fy.a, fwy = fy.fwd, uy = fy.u, dty = fy.dt
   const az = fz.a, fwz = fz.fwd, dtz = fz.dt
   for (let k = 0; k < nz; k++) {
     const interiorLayer = k > 0 && k < nz - 1
@@ -52,10 +52,10 @@ export function fusedRhsSolveXYZf(
         }
         for (let i = nx - 2; i >= 0; i--) {
           const p0 = b0 + i, p1 = b1 + i, p2 = b2 + i, p3 = b3 + i
-          y0 = r[p0]! + dtx * bwx[p0]! * ax[p0]! * y0; r[p0] = y0
-          y1 = r[p1]! + dtx * bwx[p1]! * ax[p1]! * y1; r[p1] = y1
-          y2 = r[p2]! + dtx * bwx[p2]! * ax[p2]! * y2; r[p2] = y2
-          y3 = r[p3]! + dtx * bwx[p3]! * ax[p3]! * y3; r[p3] = y3
+          y0 = r[p0]! + ux[p0]! * y0; r[p0] = y0
+          y1 = r[p1]! + ux[p1]! * y1; r[p1] = y1
+          y2 = r[p2]! + ux[p2]! * y2; r[p2] = y2
+          y3 = r[p3]! + ux[p3]! * y3; r[p3] = y3
         }
       } else {
         const end = base + nx
@@ -67,7 +67,7 @@ export function fusedRhsSolveXYZf(
         }
         let x = r[end - 1]!
         for (let p = end - 2; p >= base; p--) {
-          x = r[p]! + dtx * bwx[p]! * ax[p]! * x
+          x = r[p]! + ux[p]! * x
           r[p] = x
         }
       }
@@ -87,7 +87,7 @@ export function fusedRhsSolveXYZf(
       const rowp = lb + jj * nx
       for (let q = 0; q < nx; q++) {
         const p = rowp + q
-        r[p] = r[p]! + dty * bwy[p]! * ay[p]! * r[p + nx]!
+        r[p] = r[p]! + uy[p]! * r[p + nx]!
       }
     }
     // 3. z forward elimination at layer k (needs layer k − 1, already eliminated).
@@ -126,12 +126,12 @@ function rhsRange(m: Model, c: Float64Array, out: Float64Array, r: Float64Array,
 
 /** Second half of the z solve: back substitution over the layers (as in solveFactored). */
 export function backSubstituteZ(r: Float64Array, fz: SweepFactor): void {
-  const { a, bwd, dt, n: nz, inner: nPlan } = fz
+  const { u, n: nz, inner: nPlan } = fz
   for (let k = nz - 2; k >= 0; k--) {
     const row = k * nPlan
     for (let q = 0; q < nPlan; q++) {
       const p = row + q
-      r[p] = r[p]! + dt * bwd[p]! * a[p]! * r[p + nPlan]!
+      r[p] = r[p]! + u[p]! * r[p + nPlan]!
     }
   }
 }
