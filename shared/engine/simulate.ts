@@ -375,9 +375,11 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
       let sdot = 0
       for (let a = 0; a < rt.bottomCells.length; a++) sdot += rc.v[a]! * rhs[rt.bottomCells[a]!]!
       const coef = sdot / rc.denom
-      for (let a = 0; a < rt.bottomCells.length; a++) {
-        const p0 = rt.bottomCells[a]!
-        for (let k = 0; k < nz; k++) rhs[p0 + nPlan * k] += coef * rc.z[p0 + nPlan * k]!
+      // Layer by layer (consecutive cells of a layer are close in memory); same update per cell.
+      const z = rc.z, bottom = rt.bottomCells, nb = bottom.length
+      for (let k = 0; k < nz; k++) {
+        const off = nPlan * k
+        for (let a = 0; a < nb; a++) { const p = bottom[a]! + off; rhs[p] += coef * z[p]! }
       }
     }
   }
