@@ -29,7 +29,7 @@ export function factorSweep(fwd: Float32Array, bwd: Float32Array, dt: number, ou
   const size = outer * n * inner
   const f = into ?? { a: new Float64Array(size), u: new Float64Array(size), fwd, bwd, dt, outer, n, inner }
   f.fwd = fwd; f.bwd = bwd; f.dt = dt; f.outer = outer; f.n = n; f.inner = inner
-  const a = f.a
+  const a = f.a, u = f.u
   const block = n * inner
   for (let o = 0; o < outer; o++) {
     const base = o * block
@@ -43,13 +43,15 @@ export function factorSweep(fwd: Float32Array, bwd: Float32Array, dt: number, ou
         const p = row + q, pm = p - inner
         const lo = dt * fwd[pm]!
         const uPrev = dt * bwd[pm]! * a[pm]!
+        u[pm] = uPrev
         const diag = 1 + dt * (fwd[p]! + bwd[pm]!) + (diagExtra !== null ? diagExtra[p]! : 0)
         a[p] = 1 / (diag - lo * uPrev)
       }
     }
+    // Last position of each line (its multiplier is never used by the solve; kept for completeness).
+    const last = base + (n - 1) * inner
+    for (let q = 0; q < inner; q++) u[last + q] = dt * bwd[last + q]! * a[last + q]!
   }
-  const u = f.u
-  for (let p = 0; p < size; p++) u[p] = dt * bwd[p]! * a[p]!
   return f
 }
 

@@ -73,7 +73,7 @@ function main(): void {
       `cell-updates/s ${((r.cells * r.steps) / r.wall_s / 1e6).toFixed(1)}e6  peak RSS ${r.max_rss_mb.toFixed(0)} MB${err ? `  ${err}` : ''}`)
   console.log(`Driftwarden engine benchmark: ${FIXTURE}`)
   const cli = cliWall()
-  console.log(`CLI 'npm run --silent simulate -- bench-floor.json' wall time (best of 3, includes npm + tsx start-up): ${fmt(cli)} s`)
+  console.log(`CLI 'npm run --silent simulate -- bench-floor.json' wall time (best of 3, includes npm + node start-up and the cached-bundle launcher): ${fmt(cli)} s`)
   const ref = runChild({ numerics: { time_step_s: 0.5 } })
   line('reference (same grid, dt 0.5 s fixed)', ref)
   const main_ = runChild({})

@@ -1,7 +1,7 @@
 // The command line contract of shared/scenario-format.md: one JSON result on stdout, or one line on
 // stderr naming the field and a non-zero exit with nothing on stdout.
-import { spawnSync } from 'node:child_process'
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs'
+import { spawn, spawnSync } from 'node:child_process'
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { fileURLToPath } from 'node:url'
@@ -50,4 +50,26 @@ describe('simulate CLI', () => {
     expect(r.stdout).toBe('')
     expect(r.stderr.trim().split('\n')).toHaveLength(1)
   }, 60_000)
+  it('concurrent runs from a missing cache all build, agree and leave one complete bundle', async () => {
+    rmSync(join(root, 'node_modules/.cache/driftwarden'), { recursive: true, force: true })
+    const run = () => new Promise<{ code: number | null; out: string; err: string }>((done) => {
+      const p = spawn('node', ['server/cli/simulate-launch.mjs', fixture('format-example.json')], { cwd: root })
+      let out = '', err = ''
+      p.stdout.on('data', (d) => (out += d))
+      p.stderr.on('data', (d) => (err += d))
+      p.on('close', (code) => done({ code, out, err }))
+    })
+    const runs = await Promise.all([run(), run(), run()])
+    const strip = (s: string) => { const j = JSON.parse(s); delete j.stats.wall_s; return JSON.stringify(j) }
+    for (const r of runs) {
+      expect(r.code).toBe(0)
+      expect(r.err).toBe('')
+      expect(strip(r.out)).toBe(strip(runs[0]!.out))
+    }
+    const bundle = readFileSync(join(root, 'node_modules/.cache/driftwarden/simulate-cli.mjs'), 'utf8')
+    expect(bundle.startsWith('// driftwarden-bundle {')).toBe(true)
+    const again = cli(fixture('format-example.json'))
+    expect(again.status).toBe(0)
+    expect(strip(again.stdout)).toBe(strip(runs[0]!.out))
+  }, 120_000)
 })
