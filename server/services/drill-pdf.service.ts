@@ -1,5 +1,5 @@
 import type { Content, TableCell } from 'pdfmake/interfaces'
-import { isTooLate, noticeVersion, TOO_LATE_FINDING, verdictLabel } from '../../shared/drills/compare'
+import { isTooLate, noticeVersion, TOO_LATE_FINDING, verdictText } from '../../shared/drills/compare'
 import { formatSeconds } from '../../shared/plans/format'
 import type { DrillDetail } from '../../shared/schemas/drills'
 import { BRAND, cautionBox, renderPdf } from '../pdf/pdfmake'
@@ -24,13 +24,13 @@ export function renderDrillPdf(d: DrillDetail): Promise<Buffer> {
     { text: d.scenario },
     h2('Measured against predicted'),
     table(['*', 80, 80, 70, 120], ['Measure', 'Predicted', 'Measured', 'Difference', 'Verdict'], d.comparison.map((c) => [
-      c.label, formatSeconds(c.predictedS, '–'), formatSeconds(c.measuredS, '–'), c.deltaS === null ? '–' : `${c.deltaS > 0 ? '+' : ''}${Math.round(c.deltaS)} s`, verdictLabel(c.verdict, c.predictedS),
+      c.label, formatSeconds(c.predictedS, '–'), formatSeconds(c.measuredS, '–'), c.deltaS === null ? '–' : `${c.deltaS > 0 ? '+' : ''}${Math.round(c.deltaS)} s`, verdictText(c),
     ])),
     { text: 'Times count from the alarm being heard.', fontSize: 7.5, color: BRAND.muted },
     ...(d.comparison.some(isTooLate) ? [{ text: TOO_LATE_FINDING, bold: true, margin: [0, 4, 0, 0] } as Content] : []),
     h2('Checklist'),
     table([18, 100, '*', 55, 55, 95], ['#', 'Who', 'What', 'Target', 'Done at', 'Verdict'], d.stepComparison.map((s, i) => [
-      String(i + 1), s.who, s.what, formatSeconds(s.targetS, '–'), s.done ? formatSeconds(s.atS, 'done') : 'not done', verdictLabel(s.verdict, s.targetS),
+      String(i + 1), s.who, s.what, formatSeconds(s.targetS, '–'), s.done ? formatSeconds(s.atS, 'done') : 'not done', verdictText({ ...s, measure: d.checklist.find((x) => x.id === s.stepId)?.measure ?? 'none' }),
     ])),
     ...(d.record.observations ? [h2('Observations'), { text: d.record.observations } as Content] : []),
     { text: `Recorded ${stamp(d.record.recordedAt)}${d.record.recordedBy ? ` by ${d.record.recordedBy}` : ''}.`, fontSize: 8, margin: [0, 4, 0, 0] },

@@ -53,8 +53,13 @@ export const TOO_LATE_FINDING =
 export function verdictLabel(verdict: Comparison['verdict'], predictedS: number | null): string {
   return verdict === 'over' && predictedS === 0 ? TOO_LATE_LABEL : VERDICT_LABELS[verdict]
 }
-export const isTooLate = (c: { verdict: Comparison['verdict']; predictedS?: number | null; targetS?: number | null }) =>
-  c.verdict === 'over' && (c.predictedS ?? c.targetS) === 0
+/** Only evacuation is judged this way: a zero evacuation target means the critical level comes before the alarm is heard. */
+export const isTooLate = (c: { verdict: Comparison['verdict']; measure: string; predictedS?: number | null; targetS?: number | null }) =>
+  c.verdict === 'over' && c.measure === 'alarm_to_evacuated' && (c.predictedS ?? c.targetS) === 0
+
+/** A verdict in words for a comparison row or a checklist step (with its measure). */
+export const verdictText = (c: { verdict: Comparison['verdict']; measure: string; predictedS?: number | null; targetS?: number | null }) =>
+  isTooLate(c) ? TOO_LATE_LABEL : VERDICT_LABELS[c.verdict]
 
 /** A step's verdict while the record is typed: the measured time against the step's target. */
 export function stepVerdict(targetS: number | null, atS: number | null, done: boolean): Comparison['verdict'] {
