@@ -31,6 +31,26 @@ export function factorSweep(fwd: Float32Array, bwd: Float32Array, dt: number, ou
   f.fwd = fwd; f.bwd = bwd; f.dt = dt; f.outer = outer; f.n = n; f.inner = inner
   const a = f.a, u = f.u
   const block = n * inner
+  if (inner === 1) {
+    // Lines along x: the pivot recurrence (a division per cell) is a serial chain along each line, so
+    // advance all lines one position at a time instead (independent work; the same operations per cell).
+    for (let o = 0; o < outer; o++) {
+      const p = o * n
+      a[p] = 1 / (1 + dt * fwd[p]! + (diagExtra !== null ? diagExtra[p]! : 0))
+    }
+    for (let m = 1; m < n; m++) {
+      for (let p = m; p < size; p += n) {
+        const pm = p - 1
+        const lo = dt * fwd[pm]!
+        const uPrev = dt * bwd[pm]! * a[pm]!
+        u[pm] = uPrev
+        const diag = 1 + dt * (fwd[p]! + bwd[pm]!) + (diagExtra !== null ? diagExtra[p]! : 0)
+        a[p] = 1 / (diag - lo * uPrev)
+      }
+    }
+    for (let p = n - 1; p < size; p += n) u[p] = dt * bwd[p]! * a[p]!
+    return f
+  }
   for (let o = 0; o < outer; o++) {
     const base = o * block
     for (let q = 0; q < inner; q++) {

@@ -147,18 +147,19 @@ export function buildModel(s: Scenario, gas: Gas): Model {
   const fwdY = new Float32Array(n), bwdY = new Float32Array(n)
   const fwdZ = new Float32Array(n), bwdZ = new Float32Array(n)
   const gh = D / (h * h), gz = D / (dz * dz)
-  for (let k = 0; k < nz; k++) for (let pp = 0; pp < nPlan; pp++) {
+  // One function (not a closure per cell): this loop runs over every cell once per run.
+  const fillPlan = (pp: number, k: number, open: Float64Array, leak: Float64Array, flow: Float64Array, bottomOnly: Uint8Array, fwd: Float32Array, bwd: Float32Array) => {
     const p = pp + nPlan * k
-    const fillPlan = (open: Float64Array, leak: Float64Array, flow: Float64Array, bottomOnly: Uint8Array, fwd: Float32Array, bwd: Float32Array) => {
-      const frac = open[pp]! + (k === 0 ? leak[pp]! : 0)
-      const g = gh * Math.min(frac, 1)
-      let u = 0
-      if (flow[pp] !== 0) u = bottomOnly[pp] ? (k === 0 ? flow[pp]! / cellVolume : 0) : flow[pp]! / nz / cellVolume
-      fwd[p] = g + (u > 0 ? u : 0)
-      bwd[p] = g + (u < 0 ? -u : 0)
-    }
-    fillPlan(openX, leakX, flowX, flowBottomX, fwdX, bwdX)
-    fillPlan(openY, leakY, flowY, flowBottomY, fwdY, bwdY)
+    const frac = open[pp]! + (k === 0 ? leak[pp]! : 0)
+    const g = gh * Math.min(frac, 1)
+    let u = 0
+    if (flow[pp] !== 0) u = bottomOnly[pp] ? (k === 0 ? flow[pp]! / cellVolume : 0) : flow[pp]! / nz / cellVolume
+    fwd[p] = g + (u > 0 ? u : 0)
+    bwd[p] = g + (u < 0 ? -u : 0)
+  }
+  for (let k = 0; k < nz; k++) for (let pp = 0; pp < nPlan; pp++) {
+    fillPlan(pp, k, openX, leakX, flowX, flowBottomX, fwdX, bwdX)
+    fillPlan(pp, k, openY, leakY, flowY, flowBottomY, fwdY, bwdY)
   }
   // Vertical faces, with cleanroom downflow carried upwind (downward: C of the upper cell).
   const floorOut = new Float64Array(nPlan)
