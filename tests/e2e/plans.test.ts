@@ -51,12 +51,15 @@ describe('response plans in the browser', () => {
     await signIn(page, acct('ehs_officer').email, acct('ehs_officer').password)
     await page.getByRole('heading', { name: 'Generate a response plan' }).waitFor()
     // The floors load on mount: reopen the menu until they are there
+    // (another e2e file may have made its own "Level 1": pick this fixture's floor by its id-stamped name)
+    const floorName = (await server.rt.ctx.db.selectFrom('floors').select('name').where('id', '=', fx.floorId).executeTakeFirstOrThrow()).name
+    const option = page.getByRole('option', { name: new RegExp(floorName.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')) })
     await expect.poll(async () => {
       await page.keyboard.press('Escape')
       await page.getByTestId('plan-floor').click()
-      return page.getByRole('option', { name: /Level 1/ }).count()
+      return option.count()
     }).toBeGreaterThan(0)
-    await page.getByRole('option', { name: /Level 1/ }).click()
+    await option.click()
     await page.getByRole('checkbox', { name: /NH3 cylinder, normal ventilation/ }).click()
     await page.getByLabel('Title (optional)').fill('Ammonia cylinder <leak> plan')
     await shot(page, 'plans-new-1366')
