@@ -45,8 +45,6 @@ async function buildBundle() {
   const res = await build({
     entryPoints: [ENTRY], absWorkingDir: ROOT, bundle: true, platform: 'node', format: 'esm', target: 'node20',
     write: false, metafile: true, logLevel: 'silent', legalComments: 'none', minify: true, keepNames: false,
-    // Bundled CommonJS dependencies may call require(): give the ESM bundle one.
-    banner: { js: "import { createRequire as __dwCreateRequire } from 'node:module'; const require = __dwCreateRequire(import.meta.url);" },
   })
   const inputs = {}
   for (const file of Object.keys(res.metafile.inputs)) {
@@ -54,6 +52,8 @@ async function buildBundle() {
     // A file modified while esbuild was reading it is recorded as stale: the next run rebuilds.
     inputs[file] = t >= started - 5 ? -1 : t
   }
+  // A different esbuild could bundle differently: its package file counts as an input too.
+  inputs['node_modules/esbuild/package.json'] = mtime(join(ROOT, 'node_modules/esbuild/package.json'))
   const manifest = { esbuild: version, launcher: mtime(HERE), inputs }
   return TAG + JSON.stringify(manifest) + '\n' + res.outputFiles[0].text
 }
@@ -61,7 +61,15 @@ async function buildBundle() {
 let code = freshBundle()
 let url = pathToFileURL(BUNDLE).href
 if (code === null) {
-  code = await buildBundle()
+  try {
+    code = await buildBundle()
+  } catch (e) {
+    // A broken source: one line, as for every other failure of the CLI (exit 1).
+    const first = e?.errors?.[0]
+    const where = first?.location ? `${first.location.file}:${first.location.line}: ` : ''
+    process.stderr.write(`error: cannot bundle server/cli/simulate.ts: ${where}${first?.text ?? e?.message ?? e}`.replace(/\s+/g, ' ').trim() + '\n')
+    process.exit(1)
+  }
   const tmp = `${BUNDLE}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`
   try {
     mkdirSync(CACHE_DIR, { recursive: true })
