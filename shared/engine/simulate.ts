@@ -1,7 +1,7 @@
 import type { Gas } from '../gases/gas-schema'
 import { SimulationCancelled } from './errors'
 import { applyOperator, explicitStableStep, outgoingRates } from './operator'
-import { factorSweep, solveFactored, type SweepFactor } from './factored-sweep'
+import { factorSweep, solveFactoredColumns, type SweepFactor } from './factored-sweep'
 import { backSubstituteZ, fusedRhsSolveXYZf } from './fused-step'
 import { accountSinks, finishStep, scaleField, snapshotPlan, type RateWeights } from './step-kernels'
 import { buildModel, type Model } from './model'
@@ -301,7 +301,8 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const returnCorrection = (rt: Model['returns'][number], fz: SweepFactor, h: number) => {
     const z = new Float64Array(n)
     for (let a = 0; a < rt.topCells.length; a++) z[rt.topCells[a]!] = 1
-    solveFactored(z, fz)
+    // z is non-zero only in the room's columns (the z factor couples cells of one column).
+    solveFactoredColumns(z, fz, rt.bottomCells)
     const v = new Float64Array(rt.bottomCells.length)
     let vz = 0
     for (let a = 0; a < v.length; a++) {
