@@ -1,5 +1,5 @@
 import { titleWithoutDrillPrefix } from '../../shared/drills/compare'
-import { createHash, createHmac, timingSafeEqual } from 'node:crypto'
+import { createHmac } from 'node:crypto'
 import { createEvent } from 'ics'
 import { formatLocal } from '../../shared/drills/time'
 import { SCREENING_CAUTION } from '../../shared/ui/cautions'
@@ -9,6 +9,7 @@ import { composeMail } from '../mail/compose'
 import type { Runtime } from '../runtime'
 import { claimReminder, dueReminders, findDrillInOrg, findParticipant, listParticipants, setParticipantToken } from '../repositories/drills.repo'
 import type { ServiceContext } from './context'
+import { hashNonce, signToken, verifyTokenSignature } from './signed-links'
 
 /**
  * Drill notices: invitations, moves, cancellations and reminders, each an e-mail through the foundation's
@@ -20,9 +21,6 @@ export const drillClock = { now: (): Date => new Date() }
 export const REMINDER_QUEUE = 'drill-reminders'
 const TOKEN_PURPOSE = 'drill-receipt'
 
-const sha256 = (s: string) => createHash('sha256').update(s).digest('base64url')
-const sign = (secret: string, payload: string) => createHmac('sha256', secret).update(payload).digest('base64url')
-
 /**
  * Receipt links follow the approach of services/signed-links.ts: `<participant>.<nonce>.<purpose>.<expires>.<hmac>`.
  * The HMAC stops forgery; the stored nonce hash (rotated by each notice) and token_used_at make it single-use.
@@ -31,26 +29,19 @@ export async function issueReceiptToken(db: Db, secret: string, participantId: n
   // Derived from the drill's notice sequence, so a reminder carries the same link as the invitation (both keep
   // working until one is used) while a move, which bumps the sequence, replaces it.
   const nonce = createHmac('sha256', secret).update(`drill-receipt-nonce.${participantId}.${generation}`).digest('base64url').slice(0, 24)
-  await setParticipantToken(db, participantId, sha256(nonce), expiresAt, clearConfirmation)
-  const payload = `${participantId}.${nonce}.${TOKEN_PURPOSE}.${Math.floor(expiresAt.getTime() / 1000)}`
-  return `${payload}.${sign(secret, payload)}`
+  await setParticipantToken(db, participantId, hashNonce(nonce), expiresAt, clearConfirmation)
+  return signToken(secret, participantId, nonce, TOKEN_PURPOSE, expiresAt)
 }
 
 /** Checks a receipt link without using it; 410 when tampered with, replaced, used or expired. */
 export async function inspectReceiptToken(db: Db, secret: string, token: string) {
-  const invalid = () => gone('This confirmation link is not valid. Use the link in the latest e-mail about the drill.')
-  const parts = token.split('.')
-  if (parts.length !== 5) throw invalid()
-  const [idText, nonce, purpose, exp, mac] = parts as [string, string, string, string, string]
-  const expected = Buffer.from(sign(secret, `${idText}.${nonce}.${purpose}.${exp}`))
-  const given = Buffer.from(mac)
-  if (expected.length !== given.length || !timingSafeEqual(expected, given) || purpose !== TOKEN_PURPOSE || !/^\d+$/.test(idText)) throw invalid()
-  if (Number(exp) * 1000 < drillClock.now().getTime()) throw gone('This confirmation link has expired.')
-  const row = await findParticipant(db, Number(idText))
-  if (!row || row.nonce_hash !== sha256(nonce)) throw invalid()
+  const invalid = 'This confirmation link is not valid. Use the link in the latest e-mail about the drill.'
+  const { id, nonceHash } = verifyTokenSignature(secret, token, TOKEN_PURPOSE, drillClock.now(), { invalid, expired: 'This confirmation link has expired.' })
+  const row = await findParticipant(db, id)
+  if (!row || row.nonce_hash !== nonceHash) throw gone(invalid)
   if (row.token_used_at) throw gone('This confirmation link has already been used.')
   if (row.token_expires_at && new Date(row.token_expires_at).getTime() < drillClock.now().getTime()) throw gone('This confirmation link has expired.')
-  return { row, nonceHash: sha256(nonce) }
+  return { row, nonceHash }
 }
 
 /** Links stay valid until a week after the drill. */
