@@ -96,7 +96,8 @@ describe('versions, publishing and acknowledgments', () => {
     expect(res.body.managers.every((m: { state: string }) => m.state === 'pending')).toBe(true)
     await officer.post(`/api/plans/${planId}/publish`).send({}).expect(409)
 
-    const mail = await waitForMail(rt.ctx.db, acct('lab_manager').email, /Please acknowledge/)
+    // Other files publish plans to the same lab manager: wait for this plan's message.
+    const mail = await waitForMail(rt.ctx.db, acct('lab_manager').email, /Please acknowledge: Ammonia <b>release<\/b> plan \(version 1\)/)
     expect(mail.subject).toContain('Ammonia <b>release</b> plan (version 1)')
     expect(mail.html_body).toContain('Ammonia &lt;b&gt;release&lt;/b&gt; plan')
     expect(mail.text_body).toContain(hash1)
