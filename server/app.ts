@@ -64,12 +64,13 @@ export function createApp(ctx: ServiceContext, opts: AppOptions) {
   app.use(
     '/api',
     session({
-      store: new PgStore({ pool: opts.pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 600 }),
+      // No touch: the fixed 12-hour expiry is enough, and touching would write the session row on every request.
+      store: new PgStore({ pool: opts.pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 600, disableTouch: true }),
       name: 'dw_sid',
       secret: opts.sessionSecret,
       resave: false,
       saveUninitialized: false,
-      rolling: true,
+      rolling: false,
       cookie: { httpOnly: true, sameSite: 'lax', secure: ctx.config.secureCookies, maxAge: 12 * 3600_000, path: '/' },
     }),
   )
