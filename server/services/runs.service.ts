@@ -11,6 +11,7 @@ import {
 import type { ServiceContext } from './context'
 import { canManageFloors, requireVisibleFloor } from './floors.service'
 import { checkRunnable, requireScenario } from './scenarios.service'
+import { RunFieldsCache } from './run-fields-cache'
 
 type ListRow = Awaited<ReturnType<typeof listRuns>>[number]
 
@@ -83,16 +84,23 @@ export async function getRunSeries(ctx: ServiceContext, actor: Actor, id: number
   return r.series as RunSeries
 }
 
-/** Streams the Float32 planes (layout: RunFieldsMeta in shared/schemas/runs.ts). */
+const fieldsCache = new RunFieldsCache()
+
+/** Sends the Float32 planes (layout: RunFieldsMeta in shared/schemas/runs.ts). */
 export async function sendRunFields(ctx: ServiceContext, actor: Actor, id: number, res: Response) {
   await requireRun(ctx, actor, id)
-  const r = await findResultBinary(ctx.db, id)
-  if (!r) throw new AppError(409, 'not_ready', 'This run has no result yet')
-  const body = Buffer.concat([r.frames, r.fronts, r.peak])
+  let entry = fieldsCache.get(id)
+  if (!entry) {
+    const r = await findResultBinary(ctx.db, id)
+    if (!r) throw new AppError(409, 'not_ready', 'This run has no result yet')
+    const meta = r.meta as RunFieldsMeta
+    entry = { body: Buffer.concat([r.frames, r.fronts, r.peak]), frames: r.frames.length / 4 / (meta.nx * meta.ny) }
+    fieldsCache.set(id, entry)
+  }
   res.setHeader('content-type', 'application/octet-stream')
   res.setHeader('cache-control', 'private, max-age=3600')
-  res.setHeader('x-frames', String(r.frames.length / 4 / ((r.meta as RunFieldsMeta).nx * (r.meta as RunFieldsMeta).ny)))
-  res.status(200).end(body)
+  res.setHeader('x-frames', String(entry.frames))
+  res.status(200).end(entry.body)
 }
 
 export async function cancelRun(ctx: ServiceContext, actor: Actor, id: number): Promise<RunDetail> {
