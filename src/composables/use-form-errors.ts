@@ -29,5 +29,10 @@ export function useFormErrors() {
     fields.value = rest
   }
 
-  return { fields, message, clear, show, clearField }
+  /** The message for a field or, failing that, for the first of its nested fields (e.g. "runIds.2"). */
+  function forField(name: string): string | undefined {
+    return fields.value[name] ?? Object.entries(fields.value).find(([k]) => k.startsWith(`${name}.`))?.[1]
+  }
+
+  return { fields, message, clear, show, clearField, forField }
 }
