@@ -1,5 +1,3 @@
-import { mkdirSync } from 'node:fs'
-import path from 'node:path'
 import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { insertFloor } from '../../server/repositories/floors.repo'
@@ -7,15 +5,11 @@ import { findUserByEmail } from '../../server/repositories/users.repo'
 import { DEMO_ACCOUNTS } from '../../server/seed/demo-accounts'
 import { ensureDemoSite, seedDemoFloor } from '../../server/seed/demo-floor'
 import { emptyPlan } from '../../shared/floorplan/plan-schema'
-import { ARTIFACTS, launchBrowser } from '../support/browser'
+import { launchBrowser, shot } from '../support/browser'
 import { startTestServer } from '../support/test-server'
 
 const officer = DEMO_ACCOUNTS.find((a) => a.role === 'ehs_officer')!
 
-async function shot(page: Page, name: string) {
-  mkdirSync(ARTIFACTS, { recursive: true })
-  await page.screenshot({ path: path.join(ARTIFACTS, `${name}.png`), animations: 'disabled' })
-}
 
 describe('floor-plan editor', () => {
   let server: Awaited<ReturnType<typeof startTestServer>>

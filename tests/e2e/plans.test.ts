@@ -1,24 +1,13 @@
-import { mkdirSync } from 'node:fs'
-import path from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser, Page } from 'playwright-core'
-import { ARTIFACTS, launchBrowser } from '../support/browser'
+import type { Browser } from 'playwright-core'
+import { launchBrowser, shot, signInThroughForm as signIn, watchPageErrors as watch } from '../support/browser'
 import { startTestServer } from '../support/test-server'
 import { signIn as apiSignIn } from '../support/test-runtime'
 import { acct, planFixture } from '../api/plans-fixtures'
 
 const LAPTOP = { width: 1366, height: 900 }
 
-async function shot(page: Page, name: string, fullPage = false) {
-  mkdirSync(ARTIFACTS, { recursive: true })
-  await page.screenshot({ path: path.join(ARTIFACTS, `${name}.png`), animations: 'disabled', fullPage })
-}
 
-async function signIn(page: Page, email: string, password: string) {
-  await page.getByLabel('E-mail address').fill(email)
-  await page.getByLabel('Password', { exact: true }).fill(password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-}
 
 describe('response plans in the browser', () => {
   let server: Awaited<ReturnType<typeof startTestServer>>
@@ -35,12 +24,6 @@ describe('response plans in the browser', () => {
     await server?.close()
   })
 
-  function watch(page: Page) {
-    const problems: string[] = []
-    page.on('pageerror', (e) => problems.push(`pageerror: ${e.message}`))
-    page.on('console', (m) => { if (m.type() === 'error' && !/401/.test(m.text())) problems.push(`console: ${m.text()}`) })
-    return problems
-  }
 
   it('an officer generates, edits and publishes; the lab manager opens the plan and acknowledges it', async () => {
     // Officer: generate from the result, fill the assembly point, publish.

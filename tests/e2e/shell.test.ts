@@ -1,21 +1,14 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { mkdirSync } from 'node:fs'
-import path from 'node:path'
 import type { Browser, BrowserContext, Page } from 'playwright-core'
 import { DEMO_ACCOUNTS } from '../../server/seed/demo-accounts'
 import { findUserByEmail, insertUser } from '../../server/repositories/users.repo'
 import { hashPassword } from '../../server/services/passwords'
-import { ARTIFACTS, launchBrowser } from '../support/browser'
+import { launchBrowser, shot, signInThroughForm as signIn } from '../support/browser'
 import { startTestServer } from '../support/test-server'
 
 const LAPTOP = { width: 1366, height: 768 }
 const TABLET = { width: 820, height: 1180 }
 
-/** Viewport-sized screenshot with Quasar's transitions (dialogs, menus, drawer) finished, not caught half-way. */
-async function screenshot(page: Page, name: string) {
-  mkdirSync(ARTIFACTS, { recursive: true })
-  await page.screenshot({ path: path.join(ARTIFACTS, `${name}.png`), animations: 'disabled' })
-}
 
 const account = (role: string) => {
   const found = DEMO_ACCOUNTS.find((a) => a.role === role)
@@ -50,11 +43,7 @@ describe('client shell', () => {
     return { context, page, problems }
   }
 
-  async function signIn(page: Page, email: string, password: string) {
-    await page.getByLabel('E-mail address').fill(email)
-    await page.getByLabel('Password', { exact: true }).fill(password)
-    await page.getByRole('button', { name: 'Sign in' }).click()
-  }
+
 
   it('when signed out, a deep link leads to sign-in and back after signing in', async () => {
     const { context, page, problems } = await openPage(LAPTOP)
@@ -62,11 +51,11 @@ describe('client shell', () => {
     await page.goto(`${server.url}/admin/users`)
     await page.getByRole('heading', { name: 'Sign in' }).waitFor()
     expect(new URL(page.url()).searchParams.get('redirect')).toBe('/admin/users')
-    await screenshot(page, 'shell-sign-in-1366')
+    await shot(page, 'shell-sign-in-1366')
 
     await signIn(page, admin.email, 'not-the-password')
     await expect.poll(() => page.getByRole('alert').first().textContent()).toMatch(/do not match/)
-    await screenshot(page, 'shell-sign-in-wrong-1366')
+    await shot(page, 'shell-sign-in-wrong-1366')
 
     await signIn(page, admin.email, admin.password)
     await page.getByRole('heading', { name: 'Users' }).waitFor()
@@ -92,27 +81,27 @@ describe('client shell', () => {
     await expect.poll(() => nav.getByRole('link', { name: 'Overview' }).isVisible()).toBe(true)
     await expect.poll(() => nav.getByRole('link', { name: 'Users' }).isVisible()).toBe(true)
     await expect.poll(() => nav.getByRole('link', { name: 'Outbox' }).isVisible()).toBe(true)
-    await screenshot(page, 'shell-overview-admin-1366')
+    await shot(page, 'shell-overview-admin-1366')
     const caution = page.getByRole('region', { name: 'Screening estimate, not a safety determination' })
     await caution.getByRole('button', { name: 'Read the full caution' }).click()
     await expect.poll(() => caution.textContent()).toContain('authority having jurisdiction govern')
     await caution.scrollIntoViewIfNeeded()
-    await screenshot(page, 'shell-caution-expanded-1366')
+    await shot(page, 'shell-caution-expanded-1366')
 
     await nav.getByRole('link', { name: 'Users' }).click()
     await page.getByRole('heading', { name: 'Users' }).waitFor()
     const table = page.getByTestId('users-table')
     for (const demo of DEMO_ACCOUNTS) await expect.poll(() => table.textContent()).toContain(demo.email)
-    await screenshot(page, 'shell-users-1366')
+    await shot(page, 'shell-users-1366')
 
     await page.getByRole('button', { name: 'Invite a person' }).click()
     await page.getByRole('dialog').getByRole('heading', { name: 'Invite a person' }).waitFor()
-    await screenshot(page, 'shell-invite-dialog-1366')
+    await shot(page, 'shell-invite-dialog-1366')
     await page.getByRole('dialog').getByRole('button', { name: 'Cancel' }).click()
 
     await page.getByTestId('user-menu').click()
     await page.getByRole('button', { name: 'Sign out' }).waitFor()
-    await screenshot(page, 'shell-user-menu-1366')
+    await shot(page, 'shell-user-menu-1366')
     expect(problems).toEqual([])
     await context.close()
   })
@@ -125,11 +114,11 @@ describe('client shell', () => {
     await page.getByRole('heading', { name: 'Users' }).waitFor()
     const usersLink = page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Users' })
     await expect.poll(() => usersLink.isVisible()).toBe(false)
-    await screenshot(page, 'shell-users-820')
+    await shot(page, 'shell-users-820')
 
     await page.getByRole('button', { name: 'Show or hide navigation' }).click()
     await expect.poll(() => usersLink.isVisible()).toBe(true)
-    await screenshot(page, 'shell-drawer-820')
+    await shot(page, 'shell-drawer-820')
     expect(problems).toEqual([])
     await context.close()
   })
@@ -146,7 +135,7 @@ describe('client shell', () => {
 
     await page.goto(`${server.url}/admin/users`)
     await page.getByRole('heading', { name: 'Not available for your role' }).waitFor()
-    await screenshot(page, 'shell-not-allowed-staff-1366')
+    await shot(page, 'shell-not-allowed-staff-1366')
     expect(problems).toEqual([])
     await context.close()
   })
@@ -181,13 +170,13 @@ describe('client shell', () => {
       .toBe(true)
     await managerMail.click()
     const body = (await adminView.page.locator('article pre').textContent()) ?? ''
-    await screenshot(adminView.page, 'shell-outbox-1366')
+    await shot(adminView.page, 'shell-outbox-1366')
     const link = body.match(/https?:\/\/\S+\/reset-password\?token=[^\s]+/)?.[0]
     expect(link, body).toBeTruthy()
 
     await visitor.page.goto(link!)
     await expect.poll(() => visitor.page.getByRole('main').textContent()).toContain(manager.email)
-    await screenshot(visitor.page, 'shell-reset-password-1366')
+    await shot(visitor.page, 'shell-reset-password-1366')
     const newPassword = 'a-fresh-manager-password'
     await visitor.page.getByLabel('New password', { exact: true }).fill(newPassword)
     await visitor.page.getByLabel('Repeat the new password').fill(newPassword)
@@ -196,7 +185,7 @@ describe('client shell', () => {
     await visitor.page.getByLabel('Password', { exact: true }).fill(newPassword)
     await visitor.page.getByRole('button', { name: 'Sign in' }).click()
     await visitor.page.getByRole('heading', { name: /^Welcome,/ }).waitFor()
-    await screenshot(visitor.page, 'shell-overview-manager-1366')
+    await shot(visitor.page, 'shell-overview-manager-1366')
     expect([...visitor.problems, ...adminView.problems]).toEqual([])
     await visitor.context.close()
     await adminView.context.close()
@@ -239,13 +228,13 @@ describe('client shell', () => {
     await inviteeView.page.goto(link!)
     await expect.poll(() => inviteeView.page.getByRole('main').textContent()).toContain(invitee.email)
     await expect.poll(() => inviteeView.page.getByLabel('Your name').inputValue()).toBe(invitee.name)
-    await screenshot(inviteeView.page, 'shell-accept-invitation-820')
+    await shot(inviteeView.page, 'shell-accept-invitation-820')
     await inviteeView.page.getByLabel('Your name').fill('Noor Amari')
     await inviteeView.page.getByLabel('New password', { exact: true }).fill('chemist-password-1')
     await inviteeView.page.getByLabel('Repeat the new password').fill('chemist-password-1')
     await inviteeView.page.getByRole('button', { name: 'Create my account' }).click()
     await inviteeView.page.getByRole('heading', { name: 'Welcome, Noor' }).waitFor()
-    await screenshot(inviteeView.page, 'shell-overview-staff-820')
+    await shot(inviteeView.page, 'shell-overview-staff-820')
 
     await adminView.page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Users' }).click()
     const acceptedRow = adminView.page.getByTestId('users-table').locator('tr', { hasText: invitee.email })
@@ -253,7 +242,7 @@ describe('client shell', () => {
     await acceptedRow.getByRole('button', { name: /^Manage/ }).click()
     await adminView.page.getByText('Deactivate…').click()
     await adminView.page.getByRole('dialog').getByText('Deactivate this account?').waitFor()
-    await screenshot(adminView.page, 'shell-confirm-deactivate-1366')
+    await shot(adminView.page, 'shell-confirm-deactivate-1366')
     await adminView.page.getByRole('dialog').getByRole('button', { name: 'Deactivate' }).click()
     await expect.poll(() => acceptedRow.textContent()).toContain('Deactivated')
     expect([...adminView.problems, ...inviteeView.problems]).toEqual([])

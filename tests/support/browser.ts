@@ -14,7 +14,26 @@ export async function launchBrowser(): Promise<Browser> {
   })
 }
 
-export async function screenshot(page: Page, name: string) {
+/** A screenshot in tests/artifacts/, with transitions (dialogs, menus, drawer) finished, not caught half-way. */
+export async function shot(page: Page, name: string, fullPage = false) {
   mkdirSync(ARTIFACTS, { recursive: true })
-  await page.screenshot({ path: path.join(ARTIFACTS, `${name}.png`), fullPage: true })
+  await page.screenshot({ path: path.join(ARTIFACTS, `${name}.png`), animations: 'disabled', fullPage })
+}
+
+/** Fills and submits the sign-in form the page is showing. */
+export async function signInThroughForm(page: Page, email: string, password: string) {
+  await page.getByLabel('E-mail address').fill(email)
+  await page.getByLabel('Password', { exact: true }).fill(password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+}
+
+/**
+ * Collects page errors and console errors, so a test can assert there were none. Expected refusals (401 while
+ * signed out, 410 for a used link) are logged by the browser as failed resources and are let through.
+ */
+export function watchPageErrors(page: Page, expected = /401|410/): string[] {
+  const problems: string[] = []
+  page.on('pageerror', (e) => problems.push(`pageerror: ${e.message}`))
+  page.on('console', (m) => { if (m.type() === 'error' && !expected.test(m.text())) problems.push(`console: ${m.text()}`) })
+  return problems
 }
