@@ -1,5 +1,6 @@
 import type { SweepFactor } from './factored-sweep'
 import type { Model } from './model'
+import { rhsRange } from './operator'
 
 /**
  * The right-hand side and the first two and a half sweeps of the implicit step in one pass over the
@@ -100,29 +101,6 @@ export function fusedRhsSolveXYZf(
   }
 }
 
-/** r[p] = dt·(inflow − out·c) on cells [p0, p1) of one layer (as applyOperator). */
-function rhsRange(m: Model, c: Float64Array, out: Float64Array, r: Float64Array, dt: number, p0: number, p1: number, interior: boolean): void {
-  const { nx, ny, nz, fwdX, bwdX, fwdY, bwdY, fwdZ, bwdZ } = m
-  const nPlan = nx * ny, n = nPlan * nz
-  if (interior) {
-    for (let p = p0; p < p1; p++) {
-      const inflow = bwdX[p]! * c[p + 1]! + fwdX[p - 1]! * c[p - 1]! + bwdY[p]! * c[p + nx]! + fwdY[p - nx]! * c[p - nx]! +
-        bwdZ[p]! * c[p + nPlan]! + fwdZ[p - nPlan]! * c[p - nPlan]!
-      r[p] = dt * (inflow - out[p]! * c[p]!)
-    }
-    return
-  }
-  for (let p = p0; p < p1; p++) {
-    let inflow = 0
-    if (p + 1 < n) inflow += bwdX[p]! * c[p + 1]!
-    if (p >= 1) inflow += fwdX[p - 1]! * c[p - 1]!
-    if (p + nx < n) inflow += bwdY[p]! * c[p + nx]!
-    if (p >= nx) inflow += fwdY[p - nx]! * c[p - nx]!
-    if (p + nPlan < n) inflow += bwdZ[p]! * c[p + nPlan]!
-    if (p >= nPlan) inflow += fwdZ[p - nPlan]! * c[p - nPlan]!
-    r[p] = dt * (inflow - out[p]! * c[p]!)
-  }
-}
 
 /** Second half of the z solve: back substitution over the layers (as in solveFactored). */
 export function backSubstituteZ(r: Float64Array, fz: SweepFactor): void {

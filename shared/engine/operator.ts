@@ -8,31 +8,39 @@ import type { Model } from './model'
  * side of the delta-form implicit step and the whole update of the FTCS baseline. Allocates nothing.
  */
 export function applyOperator(m: Model, c: Float64Array, out: Float64Array, r: Float64Array, dt: number): void {
-  const { nx, ny, nz, fwdX, bwdX, fwdY, bwdY, fwdZ, bwdZ } = m
-  const nPlan = nx * ny, n = nPlan * nz
+  const nPlan = m.nx * m.ny, n = nPlan * m.nz
   const lo = Math.min(nPlan, n), hi = Math.max(n - nPlan, lo)
-  // Bottom and top layers (and single-layer grids): bounds-checked gather.
-  for (let p = 0; p < lo; p++) r[p] = gatherChecked(m, c, out, p, dt)
-  for (let p = hi; p < n; p++) r[p] = gatherChecked(m, c, out, p, dt)
-  // Interior layers: every neighbour index is in range and boundary faces have zero coefficients.
-  for (let p = lo; p < hi; p++) {
-    const inflow = bwdX[p]! * c[p + 1]! + fwdX[p - 1]! * c[p - 1]! + bwdY[p]! * c[p + nx]! + fwdY[p - nx]! * c[p - nx]! +
-      bwdZ[p]! * c[p + nPlan]! + fwdZ[p - nPlan]! * c[p - nPlan]!
-    r[p] = dt * (inflow - out[p]! * c[p]!)
-  }
+  // Bottom and top layers (and single-layer grids) need bounds checks; interior layers do not.
+  rhsRange(m, c, out, r, dt, 0, lo, false)
+  rhsRange(m, c, out, r, dt, lo, hi, true)
+  rhsRange(m, c, out, r, dt, hi, n, false)
 }
 
-function gatherChecked(m: Model, c: Float64Array, out: Float64Array, p: number, dt: number): number {
+/**
+ * r[p] = dt·(inflow − out·c) on cells [p0, p1). `interior`: every neighbour index is in range (boundary faces
+ * have zero coefficients), so the gather skips the bounds checks. Shared by applyOperator and the fused step.
+ */
+export function rhsRange(m: Model, c: Float64Array, out: Float64Array, r: Float64Array, dt: number, p0: number, p1: number, interior: boolean): void {
   const { nx, ny, nz, fwdX, bwdX, fwdY, bwdY, fwdZ, bwdZ } = m
   const nPlan = nx * ny, n = nPlan * nz
-  let inflow = 0
-  if (p + 1 < n) inflow += bwdX[p]! * c[p + 1]!
-  if (p >= 1) inflow += fwdX[p - 1]! * c[p - 1]!
-  if (p + nx < n) inflow += bwdY[p]! * c[p + nx]!
-  if (p >= nx) inflow += fwdY[p - nx]! * c[p - nx]!
-  if (p + nPlan < n) inflow += bwdZ[p]! * c[p + nPlan]!
-  if (p >= nPlan) inflow += fwdZ[p - nPlan]! * c[p - nPlan]!
-  return dt * (inflow - out[p]! * c[p]!)
+  if (interior) {
+    for (let p = p0; p < p1; p++) {
+      const inflow = bwdX[p]! * c[p + 1]! + fwdX[p - 1]! * c[p - 1]! + bwdY[p]! * c[p + nx]! + fwdY[p - nx]! * c[p - nx]! +
+        bwdZ[p]! * c[p + nPlan]! + fwdZ[p - nPlan]! * c[p - nPlan]!
+      r[p] = dt * (inflow - out[p]! * c[p]!)
+    }
+    return
+  }
+  for (let p = p0; p < p1; p++) {
+    let inflow = 0
+    if (p + 1 < n) inflow += bwdX[p]! * c[p + 1]!
+    if (p >= 1) inflow += fwdX[p - 1]! * c[p - 1]!
+    if (p + nx < n) inflow += bwdY[p]! * c[p + nx]!
+    if (p >= nx) inflow += fwdY[p - nx]! * c[p - nx]!
+    if (p + nPlan < n) inflow += bwdZ[p]! * c[p + nPlan]!
+    if (p >= nPlan) inflow += fwdZ[p - nPlan]! * c[p - nPlan]!
+    r[p] = dt * (inflow - out[p]! * c[p]!)
+  }
 }
 
 /** Total outgoing rate of each cell (s⁻¹): the diagonal of A + sink. Computed once per run. */
