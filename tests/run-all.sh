@@ -9,11 +9,15 @@ npx vite build --logLevel warn || exit 1
 mkdir -p tests/artifacts
 npx vitest run --reporter=default --reporter=json --outputFile=.vitest-results.json "$@"
 status=$?
-node -e '
+# A non-zero exit with no failed test means an error outside any test (e.g. an uncaught exception):
+# count it as one failure so the closing line never reads clean when the run was not.
+VITEST_STATUS=$status node -e '
 const fs = require("fs")
 try {
   const r = JSON.parse(fs.readFileSync(".vitest-results.json", "utf8"))
-  console.log(`${r.numPassedTests} passed, ${r.numFailedTests} failed`)
+  const outside = process.env.VITEST_STATUS !== "0" && r.numFailedTests === 0 ? 1 : 0
+  if (outside) console.log("[test] vitest failed outside any test (unhandled error above)")
+  console.log(`${r.numPassedTests} passed, ${r.numFailedTests + outside} failed`)
 } catch { console.log("0 passed, 1 failed"); process.exitCode = 1 }
 '
 exit $status
