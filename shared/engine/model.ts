@@ -147,21 +147,31 @@ export function buildModel(s: Scenario, gas: Gas): Model {
   const fwdY = new Float32Array(n), bwdY = new Float32Array(n)
   const fwdZ = new Float32Array(n), bwdZ = new Float32Array(n)
   const gh = D / (h * h), gz = D / (dz * dz)
-  // One function (not a closure per cell): this loop runs over every cell once per run.
-  const fillPlan = (pp: number, k: number, open: Float64Array, leak: Float64Array, flow: Float64Array, bottomOnly: Uint8Array, fwd: Float32Array, bwd: Float32Array) => {
-    const p = pp + nPlan * k
-    const frac = open[pp]! + (k === 0 ? leak[pp]! : 0)
-    const g = gh * Math.min(frac, 1)
-    let u = 0
-    if (flow[pp] !== 0) u = bottomOnly[pp] ? (k === 0 ? flow[pp]! / cellVolume : 0) : flow[pp]! / nz / cellVolume
-    fwd[p] = g + (u > 0 ? u : 0)
-    bwd[p] = g + (u < 0 ? -u : 0)
+  // Plan faces are the same on every layer except the bottom one (door undercuts, transfer air that
+  // only passes under a closed door): build the bottom layer and one upper layer, then copy.
+  const planFaces = (bottom: boolean, open: Float64Array, leak: Float64Array, flow: Float64Array, bottomOnly: Uint8Array, fwd: Float32Array, bwd: Float32Array, at: number) => {
+    for (let pp = 0; pp < nPlan; pp++) {
+      const frac = open[pp]! + (bottom ? leak[pp]! : 0)
+      const g = gh * Math.min(frac, 1)
+      let u = 0
+      if (flow[pp] !== 0) u = bottomOnly[pp] ? (bottom ? flow[pp]! / cellVolume : 0) : flow[pp]! / nz / cellVolume
+      fwd[at + pp] = g + (u > 0 ? u : 0)
+      bwd[at + pp] = g + (u < 0 ? -u : 0)
+    }
   }
-  for (let k = 0; k < nz; k++) for (let pp = 0; pp < nPlan; pp++) {
-    fillPlan(pp, k, openX, leakX, flowX, flowBottomX, fwdX, bwdX)
-    fillPlan(pp, k, openY, leakY, flowY, flowBottomY, fwdY, bwdY)
+  const fillPlanFaces = (open: Float64Array, leak: Float64Array, flow: Float64Array, bottomOnly: Uint8Array, fwd: Float32Array, bwd: Float32Array) => {
+    planFaces(true, open, leak, flow, bottomOnly, fwd, bwd, 0)
+    if (nz === 1) return
+    planFaces(false, open, leak, flow, bottomOnly, fwd, bwd, nPlan)
+    for (let k = 2; k < nz; k++) {
+      fwd.copyWithin(k * nPlan, nPlan, 2 * nPlan)
+      bwd.copyWithin(k * nPlan, nPlan, 2 * nPlan)
+    }
   }
-  // Vertical faces, with cleanroom downflow carried upwind (downward: C of the upper cell).
+  fillPlanFaces(openX, leakX, flowX, flowBottomX, fwdX, bwdX)
+  fillPlanFaces(openY, leakY, flowY, flowBottomY, fwdY, bwdY)
+  // Vertical faces (every layer but the top), with cleanroom downflow carried upwind (downward: C of
+  // the upper cell); identical on every layer, so built once and copied.
   const floorOut = new Float64Array(nPlan)
   const returns: Model['returns'] = []
   const topCellsOf: number[][] = s.rooms.map(() => [])
@@ -169,11 +179,15 @@ export function buildModel(s: Scenario, gas: Gas): Model {
     const r = roomOfPlan[pp]!
     if (r < 0) continue
     const w = s.rooms[r]!.ventilation.downflow?.speed_m_s ?? 0
-    for (let k = 0; k + 1 < nz; k++) {
-      fwdZ[pp + nPlan * k] = gz
-      bwdZ[pp + nPlan * k] = gz + w / dz
+    if (nz > 1) {
+      fwdZ[pp] = gz
+      bwdZ[pp] = gz + w / dz
     }
     if (w > 0) { floorOut[pp] = w / dz; topCellsOf[r]!.push(pp + nPlan * (nz - 1)) }
+  }
+  for (let k = 1; k + 1 < nz; k++) {
+    fwdZ.copyWithin(k * nPlan, 0, nPlan)
+    bwdZ.copyWithin(k * nPlan, 0, nPlan)
   }
   s.rooms.forEach((room, r) => {
     const df = room.ventilation.downflow
@@ -240,7 +254,11 @@ export function buildModel(s: Scenario, gas: Gas): Model {
     const room = roomOfPlan[home % nPlan]!
     const rad = ex.capture_radius_m ?? 0.75 * Math.max(h, dz)
     const list: number[] = []
-    for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
+    // Only the cells within the capture sphere's bounding box can qualify.
+    const ia = Math.max(0, Math.floor((ex.position_m[0] - rad - x0) / h)), ib = Math.min(nx - 1, Math.ceil((ex.position_m[0] + rad - x0) / h))
+    const ja = Math.max(0, Math.floor((ex.position_m[1] - rad - y0) / h)), jb = Math.min(ny - 1, Math.ceil((ex.position_m[1] + rad - y0) / h))
+    const ka = Math.max(0, Math.floor((ex.position_m[2] - rad) / dz)), kb = Math.min(nz - 1, Math.ceil((ex.position_m[2] + rad) / dz))
+    for (let k = ka; k <= kb; k++) for (let j = ja; j <= jb; j++) for (let i = ia; i <= ib; i++) {
       if (roomOfPlan[i + nx * j] !== room) continue
       const d2 = (x0 + (i + 0.5) * h - ex.position_m[0]) ** 2 + (y0 + (j + 0.5) * h - ex.position_m[1]) ** 2 + ((k + 0.5) * dz - ex.position_m[2]) ** 2
       if (d2 <= rad * rad) list.push(i + nx * j + nPlan * k)

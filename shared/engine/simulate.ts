@@ -219,13 +219,16 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   }
 
   // Per-cell first-order sinks: dilution ventilation, local exhaust and (bottom layer) floor outflow.
-  const sink = new Float64Array(n)
+  // Dilution is the same on every layer: one layer, copied (ventOfCell), then the floor outflow on the
+  // bottom layer and the exhausts on top of it (sink).
+  const ventOfCell = new Float64Array(n)
   for (let pp = 0; pp < nPlan; pp++) {
     const r = m.roomOfPlan[pp]!
-    if (r < 0) continue
-    for (let k = 0; k < nz; k++) sink[pp + nPlan * k] = m.roomDecay[r]!
-    sink[pp] += m.floorOut[pp]!
+    if (r >= 0) ventOfCell[pp] = m.roomDecay[r]!
   }
+  for (let k = 1; k < nz; k++) ventOfCell.copyWithin(k * nPlan, 0, nPlan)
+  const sink = ventOfCell.slice()
+  for (let pp = 0; pp < nPlan; pp++) if (m.roomOfPlan[pp]! >= 0) sink[pp] += m.floorOut[pp]!
   for (let a = 0; a < m.exhaustCells.length; a++) sink[m.exhaustCells[a]!] += m.exhaustRates[a]!
   const exhaustFractionOfRoom = new Float64Array(m.roomIds.length)
   for (const rt of m.returns) exhaustFractionOfRoom[rt.room] = rt.exhaustFraction
@@ -298,17 +301,24 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
    * (w/dz) / N on its N bottom cells (Θ as for the floor outflow, so the net floor sink is exactly f·w/dz).
    * Precompute z = T⁻¹u and 1 − vᵀz for the Sherman-Morrison update of each solve.
    */
+  // z is non-zero only in the room's columns (the z factor couples cells of one column): solved in a
+  // shared scratch field, kept compactly as z[k·nb + a] for column a, and the scratch cleared again.
+  const zScratch = new Float64Array(n)
   const returnCorrection = (rt: Model['returns'][number], fz: SweepFactor, h: number) => {
-    const z = new Float64Array(n)
-    for (let a = 0; a < rt.topCells.length; a++) z[rt.topCells[a]!] = 1
-    // z is non-zero only in the room's columns (the z factor couples cells of one column).
-    solveFactoredColumns(z, fz, rt.bottomCells)
-    const v = new Float64Array(rt.bottomCells.length)
+    const bottom = rt.bottomCells, nb = bottom.length
+    for (let a = 0; a < rt.topCells.length; a++) zScratch[rt.topCells[a]!] = 1
+    solveFactoredColumns(zScratch, fz, bottom)
+    const z = new Float64Array(nb * nz)
+    for (let k = 0; k < nz; k++) {
+      const off = nPlan * k
+      for (let a = 0; a < nb; a++) { const p = bottom[a]! + off; z[k * nb + a] = zScratch[p]!; zScratch[p] = 0 }
+    }
+    const v = new Float64Array(nb)
     let vz = 0
-    for (let a = 0; a < v.length; a++) {
-      const p = rt.bottomCells[a]!
-      v[a] = (sinkTheta(sink[p]!, h) * h * (1 - rt.exhaustFraction) * rt.rate) / v.length
-      vz += v[a]! * z[p]!
+    for (let a = 0; a < nb; a++) {
+      const p = bottom[a]!
+      v[a] = (sinkTheta(sink[p]!, h) * h * (1 - rt.exhaustFraction) * rt.rate) / nb
+      vz += v[a]! * z[a]!
     }
     return { z, v, denom: 1 - vz }
   }
@@ -316,15 +326,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const theta = s.numerics.theta
   // Implicit weights per face: θ for diffusive faces, 1 (backward Euler) for faces that carry air
   // (downflow, transfer air), where Crank-Nicolson would ring at Courant numbers above 1.
-  const weighted = (fwd: Float32Array, bwd: Float32Array) => {
-    const f = new Float32Array(n), b = new Float32Array(n)
-    for (let p = 0; p < n; p++) {
-      const w = fwd[p] === bwd[p] ? theta : 1
-      f[p] = w * fwd[p]!
-      b[p] = w * bwd[p]!
-    }
-    return { fwd: f, bwd: b }
-  }
+  const weighted = (fwd: Float32Array, bwd: Float32Array) => implicitWeights(fwd, bwd, theta)
   const wX = explicit ? null! : weighted(m.fwdX, m.bwdX)
   const wY = explicit ? null! : weighted(m.fwdY, m.bwdY)
   const wZ = explicit ? null! : weighted(m.fwdZ, m.bwdZ)
@@ -379,8 +381,8 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
       // Layer by layer (consecutive cells of a layer are close in memory); same update per cell.
       const z = rc.z, bottom = rt.bottomCells, nb = bottom.length
       for (let k = 0; k < nz; k++) {
-        const off = nPlan * k
-        for (let a = 0; a < nb; a++) { const p = bottom[a]! + off; rhs[p] += coef * z[p]! }
+        const off = nPlan * k, zk = nb * k
+        for (let a = 0; a < nb; a++) rhs[bottom[a]! + off] += coef * z[zk + a]!
       }
     }
   }
@@ -391,8 +393,6 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const roomErr = new Float64Array(nRooms), roomMass = new Float64Array(nRooms)
   const rateWeights: RateWeights = { ih: 0, ih1: 0, ih2: 0, w1: 0, w2: 0, w3: 0 }
   const pair = new Float64Array(3)
-  const ventOfCell = new Float64Array(n)
-  for (let p = 0; p < n; p++) { const r = roomOfCell[p]!; if (r >= 0) ventOfCell[p] = m.roomDecay[r]! }
   const num = s.numerics
   const fixedDt = explicit ? 0.98 * explicitStableStep(m, sink) : num.time_step_s
   // Step ladder: L0 divides the output interval, levels halve it, so aligned steps land on outputs
@@ -539,4 +539,17 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     diffusivity_m2_s: m.diffusivity, diffusivity_basis: m.diffusivityBasis, gas,
     stats: { cells: m.airCells, grid_cells: n, steps, wall_s: (now() - t0Wall) / 1000, min_dt_s: minDt, max_dt_s: maxDt, clipped_m3: clipped, solver: explicit ? 'explicit-baseline (FTCS)' : 'implicit delta-form ADI (Crank-Nicolson on diffusive faces, backward Euler on advective faces and stiff sinks; pre-factorised Thomas)' },
   }
+}
+
+/** Implicit face weights: θ·coefficient on diffusive (symmetric) faces, the full coefficient on faces that carry air. */
+function implicitWeights(fwd: Float32Array, bwd: Float32Array, theta: number): { fwd: Float32Array; bwd: Float32Array } {
+  const n = fwd.length
+  const f = new Float32Array(n), b = new Float32Array(n)
+  for (let p = 0; p < n; p++) {
+    const fp = fwd[p]!, bp = bwd[p]!
+    const w = fp === bp ? theta : 1
+    f[p] = w * fp
+    b[p] = w * bp
+  }
+  return { fwd: f, bwd: b }
 }
