@@ -5,6 +5,13 @@
  * from the (single-precision) face coefficients, which halves the memory traffic of a solve.
  * Layout [outer][n][inner]: line position m of line (o, q) is cell o·n·inner + m·inner + q.
  */
+/**
+ * Ladder levels whose factorisations a run keeps (three sweeps × inverse pivots and multipliers =
+ * 48 bytes per cell each). A run climbs from its smallest to its largest step over about 8 levels
+ * (the benchmark floor uses 8), so revisits hit the cache.
+ */
+export const FACTOR_CACHE_LEVELS = 8
+
 export interface SweepFactor {
   /** Inverse pivots. */
   a: Float64Array

@@ -1,7 +1,7 @@
 import type { Gas } from '../gases/gas-schema'
 import { SimulationCancelled } from './errors'
 import { applyOperator, explicitStableStep, outgoingRates } from './operator'
-import { factorSweep, solveFactoredColumns, type SweepFactor } from './factored-sweep'
+import { FACTOR_CACHE_LEVELS, factorSweep, solveFactoredColumns, type SweepFactor } from './factored-sweep'
 import { backSubstituteZ, fusedRhsSolveXYZf } from './fused-step'
 import { accountSinks, finishStep, scaleField, snapshotPlan, type RateWeights } from './step-kernels'
 import { buildModel, type Model } from './model'
@@ -337,11 +337,25 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   }
   const factors = new Map<number, SweepFactor[]>()
   let oddFactor: SweepFactor[] | null = null
-  /** Factorisations of the three sweeps for step h; cached per ladder level, recomputed for odd steps. */
+  /**
+   * Factorisations of the three sweeps for step h: cached per ladder level (at most
+   * FACTOR_CACHE_LEVELS, least recently used evicted and its arrays reused), recomputed for odd steps.
+   */
   const factorsFor = (h: number, level: number): SweepFactor[] => {
     const cached = level >= 0 ? factors.get(level) : undefined
-    if (cached) return cached
-    const into = level >= 0 ? undefined : oddFactor ?? undefined
+    if (cached) {
+      factors.delete(level) // re-insert: Map order is the recency order
+      factors.set(level, cached)
+      return cached
+    }
+    let into: SweepFactor[] | undefined
+    if (level < 0) into = oddFactor ?? undefined
+    else if (factors.size >= FACTOR_CACHE_LEVELS) {
+      const [oldest, arrays] = factors.entries().next().value as [number, SweepFactor[]]
+      factors.delete(oldest)
+      into = arrays
+    }
+    if (into) returnFactors.delete(into)
     const f = [
       factorSweep(wX.fwd, wX.bwd, h, ny * nz, nx, 1, null, into?.[0]),
       factorSweep(wY.fwd, wY.bwd, h, nz, ny, nx, null, into?.[1]),

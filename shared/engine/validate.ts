@@ -5,6 +5,7 @@ import {
   findSelfIntersection, pointInPolygon, pointOnPolygonEdge, polygonsOverlap, segmentOnPolygonEdge, type Point,
 } from '../geometry/polygon'
 import { ScenarioError, formatPath } from './errors'
+import { FACTOR_CACHE_LEVELS } from './factored-sweep'
 import { ScenarioSchema, type Scenario } from './scenario-schema'
 
 /** Largest grid (cells in the bounding box × layers) the engine accepts. */
@@ -46,12 +47,21 @@ function checkUnique(list: { id: string }[], field: string): void {
   })
 }
 
-/** Estimated peak memory of a run, bytes (fields, coefficients and stored snapshots). */
+/**
+ * Bytes per grid cell a run holds: seven float64 fields (concentration, sinks, right-hand side,
+ * outgoing rates, scaled sinks, dilution rates, return scratch), two float32 increment histories, the
+ * room index, the face coefficients and their implicit weights (12 float32), and the cached
+ * factorisations (FACTOR_CACHE_LEVELS ladder levels plus one odd step, 48 bytes each).
+ */
+const BYTES_PER_CELL = 7 * 8 + 2 * 4 + 2 + 12 * 4 + (FACTOR_CACHE_LEVELS + 1) * 48
+
+/** Estimated peak memory of a run, bytes (fields, coefficients, factorisations and stored snapshots). */
 export function estimateMemoryBytes(s: Scenario, planCells: number): number {
   const cells = planCells * s.grid.layers
   const outputs = Math.floor(s.duration_s / s.output_interval_s + 1e-9) + 1
   const nThresholds = 12 + s.thresholds_ppm.length
-  return cells * 8 * 14 + outputs * planCells * 4 * 2 + planCells * 8 * (nThresholds + 6)
+  const ringSlots = Math.ceil(900 / s.output_interval_s) + 2 // rolling 15-min TWA
+  return cells * BYTES_PER_CELL + outputs * planCells * 4 * 2 + planCells * 8 * (nThresholds + 6 + ringSlots)
 }
 
 /**
