@@ -6,6 +6,10 @@ export const insertPlan = (db: Db, p: { orgId: number; floorId: number; floorNam
     .values({ org_id: p.orgId, floor_id: p.floorId, floor_name: p.floorName, site_name: p.siteName, run_ids: p.runIds, created_by: p.userId })
     .returningAll().executeTakeFirstOrThrow()
 
+/** The results a plan's rule-derived content now comes from (after a refresh). */
+export const updatePlanRuns = (db: Db, id: number, runIds: number[]) =>
+  db.updateTable('plans').set({ run_ids: runIds }).where('id', '=', id).execute()
+
 export const findPlanInOrg = (db: Db, orgId: number, id: number) =>
   db.selectFrom('plans').selectAll().where('org_id', '=', orgId).where('id', '=', id).executeTakeFirst()
 

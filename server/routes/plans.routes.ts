@@ -2,7 +2,7 @@ import { z } from 'zod'
 import { IdParam } from '../../shared/schemas/common'
 import {
   AckInput, AckRecord, AuditList, NewPlan, PLAN_API, PlanContent, PlanDetail, PlanList, PlanStatus, PlanVersionParams, PublishInput,
-  RunChoiceList, SaveDraft,
+  RefreshPlan, RunChoiceList, SaveDraft,
 } from '../../shared/schemas/plans'
 import type { ApiRoutes } from '../http/define-route'
 import type { ServiceContext } from '../services/context'
@@ -29,6 +29,9 @@ export function plansRoutes(api: ApiRoutes, ctx: ServiceContext) {
 
   api.add({ method: 'put', path: '/api/plans/:id/draft', summary: 'Save the draft (after a publish, this starts the draft of the next version)', tag: 'plans', access: OFFICERS, params: IdParam, body: SaveDraft, response: PlanDetail },
     ({ actor, params, body }) => plans.saveDraft(ctx, actor, params.id, body.content))
+
+  api.add({ method: 'post', path: '/api/plans/:id/refresh', summary: "Rebuild the rule-derived content from newer results of the floor into the draft, keeping officers' own text", tag: 'plans', access: OFFICERS, params: IdParam, body: RefreshPlan, response: PlanDetail },
+    ({ actor, params, body }) => plans.refreshPlan(ctx, actor, params.id, body.runIds))
 
   api.add({ method: 'post', path: '/api/plans/:id/publish', summary: 'Freeze the draft as a version with its sha256 and ask the lab managers to acknowledge', tag: 'plans', access: OFFICERS, params: IdParam, body: PublishInput, response: PlanDetail },
     ({ actor, params, body }) => plans.publishPlan(ctx, actor, params.id, body.ackDueDays))

@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto'
 import { Plan } from '../../shared/floorplan/plan-schema'
 import { hashInput } from '../../shared/plans/canonical'
+import { refreshFromResults } from '../../shared/plans/refresh'
 import { generatePlan, type PlanRunInput } from '../../shared/plans/rules'
 import {
   type AckRecord, type NewPlan, PlanContent, type PlanDetail, type PlanListItem, type VersionSummary,
@@ -13,7 +14,7 @@ import { appendAudit } from '../repositories/audit.repo'
 import { floorIdsOfUser } from '../repositories/floors.repo'
 import {
   auditOf, findDraft, findLatestPublished, findPlanInOrg, findVersion, insertAck, insertPlan, insertVersion, listAcks, listPlansInOrg,
-  listVersions, managersOfFloors, maxVersion, publishDraft, publisherOfVersion, runsWithSummaries, updateDraftContent,
+  listVersions, managersOfFloors, maxVersion, publishDraft, publisherOfVersion, runsWithSummaries, updateDraftContent, updatePlanRuns,
 } from '../repositories/plans.repo'
 import type { ServiceContext } from './context'
 import { canManageFloors, requireVisibleFloor } from './floors.service'
@@ -101,11 +102,11 @@ export async function runsOfFloor(ctx: ServiceContext, actor: Actor, floorId: nu
   }
 }
 
-/** Applies the rules of shared/plans/rules.ts to the chosen results and stores the draft of version 1. */
-export async function createPlan(ctx: ServiceContext, actor: Actor, input: NewPlan): Promise<PlanDetail> {
-  const floor = await requireVisibleFloor(ctx.db, actor, input.floorId)
-  const ids = [...new Set(input.runIds)]
-  const rows = await runsWithSummaries(ctx.db, actor.orgId, input.floorId, ids)
+/** The chosen finished results of a floor as rule inputs, and the floor; a 400 naming each bad id. */
+async function planInputs(ctx: ServiceContext, actor: Actor, floorId: number, runIds: number[]) {
+  const floor = await requireVisibleFloor(ctx.db, actor, floorId)
+  const ids = [...new Set(runIds)]
+  const rows = await runsWithSummaries(ctx.db, actor.orgId, floorId, ids)
   const fields: Record<string, string> = {}
   const runs: PlanRunInput[] = []
   ids.forEach((id, i) => {
@@ -118,7 +119,13 @@ export async function createPlan(ctx: ServiceContext, actor: Actor, input: NewPl
   if (Object.keys(fields).length) throw new AppError(400, 'validation_failed', `Some fields are not valid: ${Object.keys(fields).join(', ')}`, fields)
   const planDoc = Plan.safeParse(floor.plan)
   if (!planDoc.success) throw new AppError(400, 'validation_failed', 'The floor plan cannot be read', { floorId: 'The floor plan is not valid' })
-  const content = PlanContent.parse(generatePlan({ name: floor.name, siteName: floor.site_name, plan: planDoc.data }, runs, input.title))
+  return { floor, ids, runs, floorInput: { name: floor.name, siteName: floor.site_name, plan: planDoc.data } }
+}
+
+/** Applies the rules of shared/plans/rules.ts to the chosen results and stores the draft of version 1. */
+export async function createPlan(ctx: ServiceContext, actor: Actor, input: NewPlan): Promise<PlanDetail> {
+  const { floor, ids, runs, floorInput } = await planInputs(ctx, actor, input.floorId, input.runIds)
+  const content = PlanContent.parse(generatePlan(floorInput, runs, input.title))
 
   const id = await ctx.db.transaction().execute(async (trx) => {
     const plan = await insertPlan(trx, { orgId: actor.orgId, floorId: floor.id, floorName: floor.name, siteName: floor.site_name, runIds: ids, userId: actor.id })
@@ -172,6 +179,33 @@ export async function getVersion(ctx: ServiceContext, actor: Actor, id: number, 
   const v = await findVersion(ctx.db, id, version)
   if (!v || (!canEditPlans(actor) && v.status !== 'published')) throw notFound('Plan version')
   return { version: v.version, status: v.status, contentHash: v.content_hash, content: PlanContent.parse(v.content) }
+}
+
+/**
+ * Rebuilds the rule-derived content from (newer) results of the plan's floor, keeping what officers wrote
+ * (shared/plans/refresh.ts), into the draft: the open draft, or the draft of the next version after a publish.
+ */
+export async function refreshPlan(ctx: ServiceContext, actor: Actor, id: number, runIds: number[]): Promise<PlanDetail> {
+  const plan = await requirePlan(ctx, actor, id)
+  if (plan.floor_id === null) throw conflict('The floor of this plan was deleted: it can no longer be refreshed from results', 'floor_deleted')
+  const { ids, runs, floorInput } = await planInputs(ctx, actor, plan.floor_id, runIds)
+  const fresh = PlanContent.parse(generatePlan(floorInput, runs))
+  await ctx.db.transaction().execute(async (trx) => {
+    const draft = await findDraft(trx, id)
+    const base = draft ?? (await findLatestPublished(trx, id))!
+    const { content, rebuilt, kept } = refreshFromResults(PlanContent.parse(base.content), fresh)
+    let version: number
+    if (draft) {
+      await updateDraftContent(trx, draft.id, content, actor.id)
+      version = draft.version
+    } else {
+      version = (await maxVersion(trx, id)) + 1
+      await insertVersion(trx, { orgId: actor.orgId, planId: id, version, content, userId: actor.id })
+    }
+    await updatePlanRuns(trx, id, ids)
+    await appendAudit(trx, { orgId: actor.orgId, actorId: actor.id, action: 'plan.refreshed', targetType: 'plan', targetId: id, detail: { version, runIds: ids, rebuilt, kept } })
+  })
+  return getPlan(ctx, actor, id)
 }
 
 /** Edits the draft; when the latest version is published, the edit becomes the draft of the next version. */

@@ -12,6 +12,7 @@ export const ACK_STATE_LABELS = { done: 'Acknowledged', pending: 'Waiting', over
 export const AUDIT_ACTION_LABELS: Record<string, string> = {
   'plan.generated': 'Generated the plan from results',
   'plan.draft_saved': 'Saved the draft',
+  'plan.refreshed': 'Rebuilt the draft from newer results',
   'plan.published': 'Published a version',
   'plan.acknowledged': 'Acknowledged a version',
   'plan.pdf_downloaded': 'Downloaded the PDF',

@@ -199,12 +199,18 @@ export const PlanListItem = z.object({
 export type PlanListItem = z.infer<typeof PlanListItem>
 export const PlanList = z.object({ plans: z.array(PlanListItem) })
 
+const PlanRunIds = z.array(z.number().int().positive()).min(1, 'Pick at least one result').max(20, 'At most 20 results')
+
 export const NewPlan = z.object({
   floorId: z.number().int().positive(),
-  runIds: z.array(z.number().int().positive()).min(1, 'Pick at least one result').max(20, 'At most 20 results'),
+  runIds: PlanRunIds,
   title: Text(200).optional(),
 })
 export type NewPlan = z.infer<typeof NewPlan>
+
+/** Rebuild the rule-derived content from these results of the plan's floor (officers' own text is kept). */
+export const RefreshPlan = z.object({ runIds: PlanRunIds })
+export type RefreshPlan = z.infer<typeof RefreshPlan>
 
 export const SaveDraft = z.object({ content: PlanContent })
 export type SaveDraft = z.infer<typeof SaveDraft>
@@ -227,6 +233,7 @@ export const PLAN_API = {
   plan: (id: number) => `/api/plans/${id}`,
   draft: (id: number) => `/api/plans/${id}/draft`,
   publish: (id: number) => `/api/plans/${id}/publish`,
+  refresh: (id: number) => `/api/plans/${id}/refresh`,
   version: (id: number, v: number) => `/api/plans/${id}/versions/${v}`,
   acknowledge: (id: number, v: number) => `/api/plans/${id}/versions/${v}/acknowledgments`,
   pdf: (id: number, v: number) => `/api/plans/${id}/versions/${v}/pdf`,

@@ -13,6 +13,7 @@ export const plansApi = {
   get: (id: number) => http.get(PLAN_API.plan(id), { schema: PlanDetail }),
   version: (id: number, v: number) => http.get(PLAN_API.version(id, v), { schema: VersionBody }),
   saveDraft: (id: number, content: PlanContent) => http.put(PLAN_API.draft(id), { content }, { schema: PlanDetail }),
+  refresh: (id: number, runIds: number[]) => http.post(PLAN_API.refresh(id), { runIds }, { schema: PlanDetail }),
   publish: (id: number, ackDueDays: number) => http.post(PLAN_API.publish(id), { ackDueDays }, { schema: PlanDetail }),
   acknowledge: (id: number, v: number, comment: string) => http.post(PLAN_API.acknowledge(id, v), { comment }, { schema: AckRecord }),
   audit: async (id: number) => (await http.get(PLAN_API.audit(id), { schema: AuditList })).entries,

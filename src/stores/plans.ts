@@ -48,6 +48,10 @@ export const usePlansStore = defineStore('plans', () => {
     current.value = await plansApi.saveDraft(current.value!.id, content)
     audit.value = await plansApi.audit(current.value.id)
   }
+  async function refresh(runIds: number[]) {
+    current.value = await plansApi.refresh(current.value!.id, runIds)
+    audit.value = await plansApi.audit(current.value.id)
+  }
   async function publish(ackDueDays: number) {
     current.value = await plansApi.publish(current.value!.id, ackDueDays)
     audit.value = await plansApi.audit(current.value.id)
@@ -58,7 +62,7 @@ export const usePlansStore = defineStore('plans', () => {
     await open(c.id)
   }
 
-  return { plans, current, audit, isLoading, error, fetchList, open, runsOfFloor, create, saveDraft, publish, acknowledge }
+  return { plans, current, audit, isLoading, error, fetchList, open, runsOfFloor, create, saveDraft, refresh, publish, acknowledge }
 })
 
 if (import.meta.hot) import.meta.hot.accept(acceptHMRUpdate(usePlansStore, import.meta.hot))

@@ -9,6 +9,7 @@ import { hashPassword } from '../../server/services/passwords'
 import { DEMO_ACCOUNTS } from '../../server/seed/demo-accounts'
 import { sql } from 'kysely'
 import { fixtureFloor, fixtureSummary } from '../unit/plans-fixtures'
+import type { RunSummary } from '../../shared/schemas/runs'
 
 export const acct = (role: string) => DEMO_ACCOUNTS.find((a) => a.role === role)!
 export const EXTRA_PASSWORD = 'plan-tests-pass-1'
@@ -16,8 +17,7 @@ export const EXTRA_PASSWORD = 'plan-tests-pass-1'
 let n = 0
 /**
  * A floor drawn from the hand-made fixture, its lab managers (the demo one plus a second), a lab manager of
- * another floor, the demo staff as a member, and one finished run whose stored result is the fixture summary
- * with simple synthetic fronts (arrival time grows 10 s per metre from the cylinder).
+ * another floor, the demo staff as a member, and one finished run whose stored result is the fixture summary.
  */
 export async function planFixture(rt: Runtime) {
   const db = rt.ctx.db
@@ -42,10 +42,19 @@ export async function planFixture(rt: Runtime) {
   const floor2 = await insertFloor(db, { orgId, siteId: site.id, name: `Level 2 ${k}`, ceilingHeightM: 3, plan, planValid: true, problems: [], userId: null })
   await replaceFloorMembers(db, floor2.id, 'manager', [otherManager.id])
 
-  const run = await insertRun(db, { orgId, floorId: floor.id, scenarioId: null, batchId: null, label: 'NH3 cylinder, normal ventilation', config: {}, floorVersion: 1, userId: id('ehs_officer') })
-  const summary = fixtureSummary()
+  const run = await insertFinishedRun(rt, { orgId, floorId: floor.id, userId: id('ehs_officer'), label: 'NH3 cylinder, normal ventilation', summary: fixtureSummary() })
+  return { orgId, floorId: floor.id, floor2Id: floor2.id, runId: run.id, officerId: id('ehs_officer'), manager2, otherManager, staffId: id('staff'), managerId: id('lab_manager') }
+}
+
+/**
+ * A finished run of a floor whose stored result is `summary`, with simple synthetic fronts (arrival time
+ * grows 10 s per metre from the cylinder; 14 s for STEL, 30 s for IDLH).
+ */
+export async function insertFinishedRun(rt: Runtime, r: { orgId: number; floorId: number; userId: number; label: string; summary: RunSummary }) {
+  const db = rt.ctx.db
+  const run = await insertRun(db, { orgId: r.orgId, floorId: r.floorId, scenarioId: null, batchId: null, label: r.label, config: {}, floorVersion: 1, userId: r.userId })
   const nx = 20, ny = 12, cellM = 0.5
-  const limits = summary.limits
+  const limits = r.summary.limits
   const fronts = new Float32Array(limits.length * nx * ny)
   limits.forEach((l, li) => {
     const factor = l.key === 'idlh' ? 30 : l.key === 'rel_stel' ? 14 : 10
@@ -55,7 +64,7 @@ export async function planFixture(rt: Runtime) {
     }
   })
   const meta = { nx, ny, cellM, originM: [0, 0], breathingHeightM: 1.5, timesS: [0, 600], limits, roomIds: ['A', 'B', 'C'] }
-  await insertResultOnce(db, { runId: run.id, summary, meta, series: { timesS: [], series: {} }, frames: Buffer.alloc(0), fronts: Buffer.from(fronts.buffer), peak: Buffer.alloc(0) })
+  await insertResultOnce(db, { runId: run.id, summary: r.summary, meta, series: { timesS: [], series: {} }, frames: Buffer.alloc(0), fronts: Buffer.from(fronts.buffer), peak: Buffer.alloc(0) })
   await sql`update runs set status = 'succeeded', finished_at = now(), progress = 1 where id = ${run.id}`.execute(db)
-  return { orgId, floorId: floor.id, floor2Id: floor2.id, runId: run.id, manager2, otherManager, staffId: id('staff'), managerId: id('lab_manager') }
+  return run
 }

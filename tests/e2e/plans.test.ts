@@ -3,7 +3,8 @@ import type { Browser } from 'playwright-core'
 import { launchBrowser, shot, signInThroughForm as signIn, watchPageErrors as watch } from '../support/browser'
 import { startTestServer } from '../support/test-server'
 import { signIn as apiSignIn } from '../support/test-runtime'
-import { acct, planFixture } from '../api/plans-fixtures'
+import { acct, insertFinishedRun, planFixture } from '../api/plans-fixtures'
+import { fixtureSummary } from '../unit/plans-fixtures'
 
 const LAPTOP = { width: 1366, height: 900 }
 
@@ -112,5 +113,44 @@ describe('response plans in the browser', () => {
     const officer = await apiSignIn(server.rt, acct('ehs_officer').email, acct('ehs_officer').password)
     const detail = (await officer.get(`/api/plans/${planId}`).expect(200)).body
     expect(detail.acknowledgments.map((a: { name: string; version: number }) => `${a.version}:${a.name}`)).toEqual([`1:${acct('lab_manager').name}`])
+  })
+
+  it('when a newer result finishes, the officer refreshes the published plan into the next draft and keeps the own text', async () => {
+    const officer = await apiSignIn(server.rt, acct('ehs_officer').email, acct('ehs_officer').password)
+    const created = (await officer.post('/api/plans').send({ floorId: fx.floorId, runIds: [fx.runId], title: 'Refresh test plan' }).expect(201)).body
+    const content = created.current.content
+    content.evacuation.assemblyPoint = 'Loading dock, east gate'
+    await officer.put(`/api/plans/${created.id}/draft`).send({ content }).expect(200)
+    await officer.post(`/api/plans/${created.id}/publish`).send({ ackDueDays: 7 }).expect(200)
+    const later = fixtureSummary({
+      firstAlarm: { detectorId: 'det-a', level: 'low', timeS: 55 },
+      receptors: fixtureSummary().receptors.map((r) => (r.id === 'det-a' ? { ...r, alarmLowS: 55, alarmHighS: 90 } : r)),
+    })
+    const newer = await insertFinishedRun(server.rt, { orgId: fx.orgId, floorId: fx.floorId, userId: fx.officerId, label: 'NH3 cylinder, exhaust upgraded', summary: later })
+
+    const ctx = await browser.newContext({ viewport: LAPTOP })
+    const page = await ctx.newPage()
+    const problems = watch(page)
+    await page.goto(`${server.url}/plans/${created.id}`)
+    await signIn(page, acct('ehs_officer').email, acct('ehs_officer').password)
+    await page.getByTestId('plan-newer-results').waitFor()
+    expect(await page.getByTestId('plan-newer-results').textContent()).toContain(`#${newer.id} NH3 cylinder, exhaust upgraded`)
+    await shot(page, 'plans-newer-results-1366')
+    await page.getByTestId('plan-newer-results').getByRole('button', { name: 'Refresh from results' }).click()
+    const dialog = page.getByTestId('plan-refresh-dialog')
+    await dialog.waitFor()
+    // The newer result is offered in place of the plan's own
+    expect(await dialog.getByRole('checkbox', { name: new RegExp(`#${newer.id} `) }).getAttribute('aria-checked')).toBe('true')
+    expect(await dialog.getByRole('checkbox', { name: new RegExp(`#${fx.runId} `) }).getAttribute('aria-checked')).toBe('false')
+    await shot(page, 'plans-refresh-dialog-1366')
+    await dialog.getByTestId('plan-refresh-confirm').click()
+    await expect.poll(() => page.getByTestId('plan-version').textContent()).toContain('Version 2')
+    // Alarm heard at 55 + 30 s; room A still reaches IDLH at 120 s: 35 s left for egress (was 50 s)
+    await expect.poll(() => page.getByTestId('plan-predicted').textContent()).toMatch(/55 s.*first detector alarm.*35 s/)
+    expect(await page.getByText('Assembly point: Loading dock, east gate').isVisible()).toBe(true)
+    await expect.poll(() => page.getByTestId('plan-newer-results').count()).toBe(0)
+    await shot(page, 'plans-refreshed-1366')
+    expect(problems).toEqual([])
+    await ctx.close()
   })
 })
