@@ -1,4 +1,4 @@
-import { pointInPolygon, type Point } from '../geometry/polygon'
+import { boundingBox, pointInPolygon, type Point } from '../geometry/polygon'
 import type { Gas } from '../gases/gas-schema'
 import { chooseDiffusivity } from './eddy-diffusivity'
 import { releaseHistory, type ReleaseHistory } from './releases'
@@ -86,10 +86,14 @@ export function buildModel(s: Scenario, gas: Gas): Model {
 
   const roomOfPlan = new Int16Array(nPlan).fill(-1)
   let airPlan = 0
+  // A centre outside a room's bounding box is outside the room: test the polygon only inside it.
+  const boxes = s.rooms.map((r) => boundingBox(r.polygon_m))
   for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
-    const c: Point = [x0 + (i + 0.5) * h, y0 + (j + 0.5) * h]
+    const cx = x0 + (i + 0.5) * h, cy = y0 + (j + 0.5) * h
     for (let r = 0; r < s.rooms.length; r++) {
-      if (pointInPolygon(c, s.rooms[r]!.polygon_m)) { roomOfPlan[i + nx * j] = r; airPlan++; break }
+      const b = boxes[r]!
+      if (cx < b[0] || cy < b[1] || cx > b[2] || cy > b[3]) continue
+      if (pointInPolygon([cx, cy], s.rooms[r]!.polygon_m)) { roomOfPlan[i + nx * j] = r; airPlan++; break }
     }
   }
   const perRoom = new Int32Array(s.rooms.length)
