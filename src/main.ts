@@ -3,14 +3,13 @@ import App from './App.vue'
 import * as styles from './boot/styles'
 import * as quasar from './boot/quasar'
 import * as pinia from './boot/pinia'
-import * as konva from './boot/konva'
 import * as csrf from './boot/csrf'
 import * as router from './boot/router'
 import type { BootContext } from './boot/types'
 import { createAppRouter } from './router'
 
 // Explicit order: Pinia before the router (its guard uses the session store), CSRF cookie before the first navigation.
-const bootModules = [styles, quasar, pinia, konva, csrf, router]
+const bootModules = [styles, quasar, pinia, csrf, router]
 
 async function start(): Promise<void> {
   const app = createApp(App)

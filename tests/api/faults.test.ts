@@ -26,9 +26,10 @@ describe('SMTP server stopped', () => {
     const email = `outage.${Date.now()}@calder-ridge.example`
     await a.post('/api/users/invitations').send({ email, name: 'Outage Test', role: 'staff' }).expect(201)
 
-    // The dispatcher tries, fails, and keeps the message pending with the error recorded.
+    // The dispatcher tries, fails, and keeps the message pending with the error recorded. (A claim counts
+    // the attempt before the send is tried, so wait for the recorded error, not for the count.)
     const orgId = (await a.get('/api/auth/me')).body.orgId
-    await expect.poll(async () => (await rt.ctx.mail.outgoing(orgId)).find((m) => m.to === email)?.attempts ?? 0, { timeout: 10_000 }).toBeGreaterThan(0)
+    await expect.poll(async () => (await rt.ctx.mail.outgoing(orgId)).find((m) => m.to === email)?.lastError ?? null, { timeout: 10_000 }).not.toBeNull()
     const queued = (await a.get('/api/admin/outgoing-mail').expect(200)).body.messages.find((m: { to: string }) => m.to === email)
     expect(queued.status).toBe('pending')
     expect(queued.lastError).toMatch(/ECONNREFUSED|connect/i)
