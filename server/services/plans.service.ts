@@ -7,6 +7,7 @@ import {
   type AckRecord, type NewPlan, PlanContent, type PlanDetail, type PlanListItem, type VersionSummary,
 } from '../../shared/schemas/plans'
 import { RunSummary } from '../../shared/schemas/runs'
+import type { Db } from '../db/database'
 import { AppError, conflict, forbidden, notFound } from '../http/errors'
 import type { Actor } from '../http/session-user'
 import { composeMail } from '../mail/compose'
@@ -181,6 +182,17 @@ export async function getVersion(ctx: ServiceContext, actor: Actor, id: number, 
   return { version: v.version, status: v.status, contentHash: v.content_hash, content: PlanContent.parse(v.content) }
 }
 
+/** Writes `content` into the open draft, or, when the latest version is published, into a new draft of the next version. */
+async function writeDraft(db: Db, actor: Actor, planId: number, draft: VersionRow | undefined, content: PlanContent): Promise<number> {
+  if (draft) {
+    await updateDraftContent(db, draft.id, content, actor.id)
+    return draft.version
+  }
+  const version = (await maxVersion(db, planId)) + 1
+  await insertVersion(db, { orgId: actor.orgId, planId, version, content, userId: actor.id })
+  return version
+}
+
 /**
  * Rebuilds the rule-derived content from (newer) results of the plan's floor, keeping what officers wrote
  * (shared/plans/refresh.ts), into the draft: the open draft, or the draft of the next version after a publish.
@@ -194,14 +206,7 @@ export async function refreshPlan(ctx: ServiceContext, actor: Actor, id: number,
     const draft = await findDraft(trx, id)
     const base = draft ?? (await findLatestPublished(trx, id))!
     const { content, rebuilt, kept } = refreshFromResults(PlanContent.parse(base.content), fresh)
-    let version: number
-    if (draft) {
-      await updateDraftContent(trx, draft.id, content, actor.id)
-      version = draft.version
-    } else {
-      version = (await maxVersion(trx, id)) + 1
-      await insertVersion(trx, { orgId: actor.orgId, planId: id, version, content, userId: actor.id })
-    }
+    const version = await writeDraft(trx, actor, id, draft, content)
     await updatePlanRuns(trx, id, ids)
     await appendAudit(trx, { orgId: actor.orgId, actorId: actor.id, action: 'plan.refreshed', targetType: 'plan', targetId: id, detail: { version, runIds: ids, rebuilt, kept } })
   })
@@ -212,15 +217,7 @@ export async function refreshPlan(ctx: ServiceContext, actor: Actor, id: number,
 export async function saveDraft(ctx: ServiceContext, actor: Actor, id: number, content: PlanContent): Promise<PlanDetail> {
   await requirePlan(ctx, actor, id)
   await ctx.db.transaction().execute(async (trx) => {
-    const draft = await findDraft(trx, id)
-    let version: number
-    if (draft) {
-      await updateDraftContent(trx, draft.id, content, actor.id)
-      version = draft.version
-    } else {
-      version = (await maxVersion(trx, id)) + 1
-      await insertVersion(trx, { orgId: actor.orgId, planId: id, version, content, userId: actor.id })
-    }
+    const version = await writeDraft(trx, actor, id, await findDraft(trx, id), content)
     await appendAudit(trx, { orgId: actor.orgId, actorId: actor.id, action: 'plan.draft_saved', targetType: 'plan', targetId: id, detail: { version } })
   })
   return getPlan(ctx, actor, id)
