@@ -52,7 +52,12 @@ export async function planFixture(rt: Runtime) {
  */
 export async function insertFinishedRun(rt: Runtime, r: { orgId: number; floorId: number; userId: number; label: string; summary: RunSummary }) {
   const db = rt.ctx.db
-  const run = await insertRun(db, { orgId: r.orgId, floorId: r.floorId, scenarioId: null, batchId: null, label: r.label, config: {}, floorVersion: 1, userId: r.userId })
+  // The scenario settings such a run would have had (the result below is what matters to the tests).
+  const config = {
+    name: r.label, sourceIds: r.summary.sources.map((x) => x.id), release: 'blowdown', durationS: r.summary.durationS, outputIntervalS: r.summary.outputIntervalS,
+    ventilationState: r.summary.ventilationState, proppedOpeningIds: [], cellM: 0.5, layers: 6,
+  }
+  const run = await insertRun(db, { orgId: r.orgId, floorId: r.floorId, scenarioId: null, batchId: null, label: r.label, config, floorVersion: 1, userId: r.userId })
   const nx = 20, ny = 12, cellM = 0.5
   const limits = r.summary.limits
   const fronts = new Float32Array(limits.length * nx * ny)
