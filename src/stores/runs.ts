@@ -2,6 +2,7 @@ import { acceptHMRUpdate, defineStore } from 'pinia'
 import { ref, shallowRef } from 'vue'
 import type { FloorDetail, FloorSummary } from '../../shared/schemas/floors'
 import type { AdvisorProposal, AdvisorRequest, RunDetail, RunListItem, RunSeries, ScenarioConfig, ScenarioRecord, SweepDetail } from '../../shared/schemas/runs'
+import type { CompareInput } from '../../shared/runs/compare'
 import { floorsApi } from '../api/floors'
 import { type ApiError, toApiError } from '../api/http'
 import { runsApi } from '../api/runs'
@@ -87,6 +88,14 @@ export const useRunsStore = defineStore('runs', () => {
     }
     await tick()
   }
+  /** Finished results to compare, by id (deduplicated, in order), and the ones left out because they have no result yet. */
+  async function loadComparison(ids: number[]): Promise<{ inputs: CompareInput[]; unfinished: RunDetail[] }> {
+    const all = await Promise.all([...new Set(ids)].map((id) => runsApi.getRun(id)))
+    return {
+      inputs: all.flatMap((r) => (r.summary ? [{ id: r.id, label: r.label, summary: r.summary }] : [])),
+      unfinished: all.filter((r) => !r.summary),
+    }
+  }
   async function propose(floorId: number, req: AdvisorRequest) { proposal.value = await runsApi.propose(floorId, req); return proposal.value }
   async function acceptProposal(floorId: number) {
     const p = proposal.value!, f = floor.value!
@@ -100,7 +109,7 @@ export const useRunsStore = defineStore('runs', () => {
 
   return {
     floors, floor, scenarios, runs, run, fields, series, sweep, proposal, error, loading,
-    loadFloors, loadFloor, refreshRuns, saveScenario, startRun, openRun, cancelRun, stopPolling, startSweep, openSweep, propose, acceptProposal,
+    loadFloors, loadFloor, refreshRuns, saveScenario, startRun, openRun, cancelRun, stopPolling, startSweep, openSweep, loadComparison, propose, acceptProposal,
   }
 })
 
