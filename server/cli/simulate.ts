@@ -21,8 +21,8 @@ try {
 }
 try {
   const fields = args.includes('--fields')
-  // Without --fields the per-output plan snapshots are never printed: skip them.
-  const result = simulate(input, { planSnapshots: fields })
+  // Without --fields no plan field (snapshots, fronts, peaks, TWA) is printed: skip computing them.
+  const result = simulate(input, { planFields: fields })
   process.stdout.write(JSON.stringify(resultToJson(result, { fields })) + '\n')
 } catch (e) {
   if (e instanceof ScenarioError) fail(e.message, 2)

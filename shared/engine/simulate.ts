@@ -19,10 +19,11 @@ export interface SimulateOptions {
   solver?: 'implicit' | 'explicit-baseline'
   /** Wall clock in ms (injectable for tests). @default performance.now */
   now?: () => number
-  /** Record the per-output plan snapshots (`breathing_ppm`, `column_max_ppm`). false leaves both
-   * arrays empty and skips their interpolation pass at every output (the CLI without --fields).
-   * Probes, fronts, peaks and TWA are unaffected. @default true */
-  planSnapshots?: boolean
+  /** Compute the plan fields: per-output snapshots (`breathing_ppm`, `column_max_ppm`) and the
+   * per-cell fronts, peaks and 15-minute TWA. false leaves them all empty and skips their passes at
+   * every step and output (the CLI without --fields prints none of them). Probes, the mass balance
+   * and the stats are unaffected. @default true */
+  planFields?: boolean
 }
 
 /** Time series and summary at one probe. */
@@ -114,17 +115,18 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const probePrev = new Float64Array(m.probes.length)
   const probeFirst = m.probes.map(() => new Float64Array(nThr).fill(Infinity))
   const probePeak = new Float64Array(m.probes.length), probePeakT = new Float64Array(m.probes.length)
-  const snapshots = opts.planSnapshots !== false
+  const fields = opts.planFields !== false
+  const nField = fields ? nPlan : 0 // plan-field arrays are empty when they are not computed
   const breathing: Float32Array[] = [], columnMax: Float32Array[] = []
-  if (snapshots) for (let k = 0; k < nOut; k++) { breathing.push(new Float32Array(nPlan)); columnMax.push(new Float32Array(nPlan)) }
-  const bhPrev = new Float64Array(nPlan)
-  const crossed = new Uint8Array(nPlan)
-  const fronts = Array.from({ length: nThr }, () => new Float32Array(nPlan).fill(Infinity))
-  const peak = new Float64Array(nPlan)
-  const integral = new Float64Array(nPlan) // ∫ C_bh dt, volume fraction × s
+  if (fields) for (let k = 0; k < nOut; k++) { breathing.push(new Float32Array(nPlan)); columnMax.push(new Float32Array(nPlan)) }
+  const bhPrev = new Float64Array(nField)
+  const crossed = new Uint8Array(nField)
+  const fronts = fields ? Array.from({ length: nThr }, () => new Float32Array(nPlan).fill(Infinity)) : []
+  const peak = new Float64Array(nField)
+  const integral = new Float64Array(nField) // ∫ C_bh dt, volume fraction × s
   const ringLen = Math.ceil(TWA_WINDOW_S / interval) + 2
-  const ring = Array.from({ length: ringLen }, () => new Float64Array(nPlan))
-  const maxTwa = new Float64Array(nPlan)
+  const ring = Array.from({ length: fields ? ringLen : 0 }, () => new Float64Array(nPlan))
+  const maxTwa = new Float64Array(nField)
 
   const k0 = m.bhK0, k1 = m.bhK1, wb = m.bhW
   const bhAt = (pp: number) => c[pp + nPlan * k0]! * (1 - wb) + c[pp + nPlan * k1]! * wb
@@ -154,8 +156,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     }
   }
   let outIndex = 0
-  const integralPrev = new Float64Array(nPlan)
-  /** Record output `outIndex` at time t, a fraction θ of the way through the last step (linear in time). */
+  const integralPrev = new Float64Array(nField)
   /**
    * Record output `outIndex` at time t, a fraction θ through the last step of length h: quadratic
    * interpolation through the last three states (linear when h1, the step before, is unknown).
@@ -164,15 +165,19 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     const g = h1 > 0 ? (theta * h) / (h + h1) : 0
     const alpha = (1 - theta) * (1 + g), beta = h1 > 0 ? ((1 - theta) * g * h) / h1 : 0
     const at = (p: number) => { const v = c[p]! - alpha * dPrev[p]! + beta * dPrev2[p]!; return v > 0 ? v : 0 }
-    if (snapshots) snapshotPlan(c, dPrev, dPrev2, alpha, beta, m.roomOfPlan, nPlan, nz, k0, k1, wb, breathing[outIndex]!, columnMax[outIndex]!)
+    if (fields) snapshotPlan(c, dPrev, dPrev2, alpha, beta, m.roomOfPlan, nPlan, nz, k0, k1, wb, breathing[outIndex]!, columnMax[outIndex]!)
     for (let q = 0; q < m.probes.length; q++) {
       const pr = m.probes[q]!
       let v = 0
       for (let a = 0; a < pr.cells.length; a++) v += at(pr.cells[a]!) * pr.weights[a]!
       probeSeries[q]![outIndex] = v * 1e6
     }
-    // Rolling 15-min TWA at the breathing height from the running integral, sampled at outputs.
-    const slot = ring[outIndex % ringLen]!
+    if (fields) recordTwa(t, theta, outIndex)
+    outIndex++
+  }
+  /** Rolling 15-min TWA at the breathing height from the running integral, sampled at outputs. */
+  const recordTwa = (t: number, theta: number, k: number) => {
+    const slot = ring[k % ringLen]!
     for (let pp = 0; pp < nPlan; pp++) slot[pp] = integralPrev[pp]! + theta * (integral[pp]! - integralPrev[pp]!)
     const tBack = t - TWA_WINDOW_S
     let b1: Float64Array | null = null, b2: Float64Array | null = null, f = 0
@@ -187,11 +192,10 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
       const twa = (slot[pp]! - ib) / TWA_WINDOW_S
       if (twa > maxTwa[pp]!) maxTwa[pp] = twa
     }
-    outIndex++
   }
   const observeStep = (tPrev: number, dt: number) => {
     integralPrev.set(integral)
-    for (let pp = 0; pp < nPlan; pp++) {
+    for (let pp = 0; pp < nField; pp++) {
       if (m.roomOfPlan[pp]! < 0) continue
       const v = bhAt(pp), vp = bhPrev[pp]!
       integral[pp] += 0.5 * (v + vp) * dt
@@ -423,7 +427,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   let lastProgress = -1
 
   applyPuffs(0)
-  for (let pp = 0; pp < nPlan; pp++) if (m.roomOfPlan[pp]! >= 0) bhPrev[pp] = bhAt(pp)
+  for (let pp = 0; pp < nField; pp++) if (m.roomOfPlan[pp]! >= 0) bhPrev[pp] = bhAt(pp)
   for (let q = 0; q < m.probes.length; q++) probePrev[q] = probeAt(q)
   observeStep(0, 0)
   recordOutput(0, 1, 0, 0)
@@ -534,8 +538,8 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     }
   })
   const nan = (a: Float64Array, scale: number) => {
-    const out = new Float32Array(nPlan)
-    for (let pp = 0; pp < nPlan; pp++) out[pp] = m.roomOfPlan[pp]! < 0 ? NaN : a[pp]! * scale
+    const out = new Float32Array(nField)
+    for (let pp = 0; pp < nField; pp++) out[pp] = m.roomOfPlan[pp]! < 0 ? NaN : a[pp]! * scale
     return out
   }
   for (const f of fronts) for (let pp = 0; pp < nPlan; pp++) if (m.roomOfPlan[pp]! < 0) f[pp] = NaN
