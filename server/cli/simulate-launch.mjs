@@ -1,5 +1,5 @@
 // Fast start-up for `npm run simulate`: bundles server/cli/simulate.ts (and everything it imports)
-// once with esbuild into node_modules/.cache/driftwarden/simulate-cli.mjs, then runs the bundle
+// once with esbuild into node_modules/.cache/driftwarden/simulate-cli.cjs, then runs the bundle
 // with plain node, so tsx's loader (and its per-file transpilation) is not paid on every run.
 //
 // The bundle's first line records every input file esbuild read (sources under shared/ and
@@ -9,15 +9,26 @@
 // so concurrent first runs never see (or leave) a partial file; the last rename wins and every
 // candidate is complete. If the cache directory cannot be written, the fresh bundle is run from
 // memory instead.
-import { mkdirSync, readFileSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs'
+//
+// V8 code cache: the bundle runs as a vm.Script, and after a successful run the compiled code (the
+// functions that run compiled, not only the top level) is saved beside it, named by a hash of the
+// bundle's text, so a changed bundle never meets a stale cache (V8 itself checks only the source
+// length, its version and flags, and rejects a mismatch of those). The next run skips parsing and
+// compiling (about 40 ms here). A cache that cannot be read or written is simply not used.
+import { createHash } from 'node:crypto'
+import { mkdirSync, readdirSync, readFileSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs'
+import { createRequire } from 'node:module'
 import { dirname, join, resolve } from 'node:path'
-import { fileURLToPath, pathToFileURL } from 'node:url'
+import { fileURLToPath } from 'node:url'
+import { Script } from 'node:vm'
 
 const HERE = fileURLToPath(import.meta.url)
 const ROOT = resolve(dirname(HERE), '../..')
 const ENTRY = join(ROOT, 'server/cli/simulate.ts')
 const CACHE_DIR = join(ROOT, 'node_modules/.cache/driftwarden')
-const BUNDLE = join(CACHE_DIR, 'simulate-cli.mjs')
+const BUNDLE = join(CACHE_DIR, 'simulate-cli.cjs')
+const CODE_CACHE_PREFIX = 'simulate-cli.'
+const CODE_CACHE_SUFFIX = '.v8cache'
 const TAG = '// driftwarden-bundle '
 
 function mtime(path) {
@@ -43,7 +54,7 @@ async function buildBundle() {
   const { build, version } = await import('esbuild')
   const started = Date.now()
   const res = await build({
-    entryPoints: [ENTRY], absWorkingDir: ROOT, bundle: true, platform: 'node', format: 'esm', target: 'node20',
+    entryPoints: [ENTRY], absWorkingDir: ROOT, bundle: true, platform: 'node', format: 'cjs', target: 'node20',
     write: false, metafile: true, logLevel: 'silent', legalComments: 'none', minify: true, keepNames: false,
   })
   const inputs = {}
@@ -58,8 +69,22 @@ async function buildBundle() {
   return TAG + JSON.stringify(manifest) + '\n' + res.outputFiles[0].text
 }
 
+/** Write a file atomically (temporary file, then rename); false when it cannot be written. */
+function writeAtomic(path, data) {
+  const tmp = `${path}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`
+  try {
+    mkdirSync(CACHE_DIR, { recursive: true })
+    writeFileSync(tmp, data)
+    renameSync(tmp, path)
+    return true
+  } catch {
+    try { unlinkSync(tmp) } catch { /* never written */ }
+    return false
+  }
+}
+
 let code = freshBundle()
-let url = pathToFileURL(BUNDLE).href
+let cached = code !== null
 if (code === null) {
   try {
     code = await buildBundle()
@@ -70,14 +95,27 @@ if (code === null) {
     process.stderr.write(`error: cannot bundle server/cli/simulate.ts: ${where}${first?.text ?? e?.message ?? e}`.replace(/\s+/g, ' ').trim() + '\n')
     process.exit(1)
   }
-  const tmp = `${BUNDLE}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`
-  try {
-    mkdirSync(CACHE_DIR, { recursive: true })
-    writeFileSync(tmp, code)
-    renameSync(tmp, BUNDLE)
-  } catch {
-    try { unlinkSync(tmp) } catch { /* never written */ }
-    url = 'data:text/javascript;base64,' + Buffer.from(code).toString('base64')
-  }
+  cached = writeAtomic(BUNDLE, code)
 }
-await import(url)
+
+// The bundle as a CommonJS module body; the first line is the manifest comment, so the wrapper's
+// opening ends with a newline.
+const source = '(function (exports, require, module, __filename, __dirname) {\n' + code + '\n})'
+const codeCache = join(CACHE_DIR, CODE_CACHE_PREFIX + createHash('sha1').update(source).digest('hex').slice(0, 20) + CODE_CACHE_SUFFIX)
+let cachedData
+if (cached) { try { cachedData = readFileSync(codeCache) } catch { /* first run of this bundle */ } }
+const script = new Script(source, { filename: BUNDLE, cachedData })
+if (cached && (cachedData === undefined || script.cachedDataRejected)) {
+  process.on('exit', (status) => {
+    if (status !== 0) return // a failed run compiled too little to be worth keeping
+    if (!writeAtomic(codeCache, script.createCachedData())) return
+    // Caches of earlier bundles are dead weight.
+    try {
+      for (const f of readdirSync(CACHE_DIR)) {
+        if (f.startsWith(CODE_CACHE_PREFIX) && f.endsWith(CODE_CACHE_SUFFIX) && join(CACHE_DIR, f) !== codeCache) unlinkSync(join(CACHE_DIR, f))
+      }
+    } catch { /* another run is tidying too */ }
+  })
+}
+const mod = { exports: {} }
+script.runInThisContext()(mod.exports, createRequire(BUNDLE), mod, BUNDLE, CACHE_DIR)

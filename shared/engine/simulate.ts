@@ -3,7 +3,7 @@ import { SimulationCancelled } from './errors'
 import { applyOperator, explicitStableStep, outgoingRates } from './operator'
 import { FACTOR_CACHE_LEVELS, factorSweep, solveFactoredColumns, type SweepFactor } from './factored-sweep'
 import { backSubstituteZ, fusedRhsSolveXYZf } from './fused-step'
-import { accountSinks, finishStep, scaleField, snapshotPlan, type RateWeights } from './step-kernels'
+import { accountSinks, finishStep, scaleField, snapshotPlan, type RateWeights, type RoomSums } from './step-kernels'
 import { buildModel, type Model } from './model'
 import type { Scenario } from './scenario-schema'
 import { thresholdsFor, type Threshold } from './thresholds'
@@ -100,8 +100,9 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const explicit = opts.solver === 'explicit-baseline'
   const c = new Float64Array(n)
   // Increment history (ΔC of the last two steps): only for the error estimate and output interpolation.
-  const dPrev = new Float32Array(n)
-  const dPrev2 = new Float32Array(n)
+  // Two buffers swapped after every step (finishStep overwrites the older one with the new increment).
+  let dPrev = new Float32Array(n)
+  let dPrev2 = new Float32Array(n)
 
   const duration = s.duration_s, interval = s.output_interval_s
   const nOut = Math.floor(duration / interval + 1e-9) + 1
@@ -408,7 +409,28 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   const nRooms = m.roomIds.length
   const roomOfCell = new Int16Array(n)
   for (let k = 0; k < nz; k++) roomOfCell.set(m.roomOfPlan, k * nPlan)
-  const roomErr = new Float64Array(nRooms), roomMass = new Float64Array(nRooms)
+  const roomSums: RoomSums = { err: new Float64Array(nRooms), mass: new Float64Array(nRooms), old: new Float64Array(nRooms), delta: new Float64Array(nRooms) }
+  const roomErr = roomSums.err, roomMass = roomSums.mass
+  // Ventilation removal of an implicit step, Σ k_vent·((1−Θ)C + ΘC_new)·dt·V: per room from the room
+  // sums with Θ = 1/2, plus the other half of ΔC in the cells where the sink is stiff (Θ = 1). Those
+  // are cells with an exhaust or a floor outflow on top of the dilution, or every ventilated cell once
+  // k_vent·dt > 1 (steps far above 3600/ACH).
+  const stiffCandidates = Int32Array.from({ length: n }, (_, p) => p).filter((p) => ventOfCell[p]! > 0 && sink[p]! > ventOfCell[p]!)
+  let maxVent = 0
+  for (let r = 0; r < nRooms; r++) maxVent = Math.max(maxVent, m.roomDecay[r]!)
+  const ventRemoval = (d: Float64Array, h: number) => {
+    let v = 0
+    for (let r = 0; r < nRooms; r++) v += m.roomDecay[r]! * (roomSums.old[r]! + 0.5 * roomSums.delta[r]!)
+    if (maxVent * h > 1) {
+      for (let p = 0; p < n; p++) if (ventOfCell[p]! > 0 && sink[p]! * h > 1) v += 0.5 * ventOfCell[p]! * d[p]!
+    } else {
+      for (let a = 0; a < stiffCandidates.length; a++) {
+        const p = stiffCandidates[a]!
+        if (sink[p]! * h > 1) v += 0.5 * ventOfCell[p]! * d[p]!
+      }
+    }
+    return v * h * vc
+  }
   const rateWeights: RateWeights = { ih: 0, ih1: 0, ih2: 0, w1: 0, w2: 0, w3: 0 }
   const pair = new Float64Array(3)
   const num = s.numerics
@@ -459,8 +481,11 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
       wt.ih = 1 / h; wt.ih1 = 1 / h1; wt.ih2 = 1 / h2
       wt.w1 = 2 / (h + h1); wt.w2 = 2 / (h1 + h2); wt.w3 = 4 / (h + 2 * h1 + h2)
     }
-    finishStep(c, rhs, dPrev, dPrev2, wt, roomOfCell, roomErr, roomMass, pair, ventOfCell, sink, h)
-    if (!explicit) removedVent += pair[2]! * h * vc
+    finishStep(c, rhs, dPrev, dPrev2, wt, roomOfCell, roomSums, pair)
+    const dNewest = dPrev2
+    dPrev2 = dPrev
+    dPrev = dNewest
+    if (!explicit) removedVent += ventRemoval(rhs, h)
     const den = pair[0]!, neg = pair[1]!
     if (neg > 0 && den > 0) {
       // Rare undershoots ahead of steep fronts: zero them and take the same mass from the positive
@@ -485,8 +510,6 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
         let worst = 0
         for (let r = 0; r < nRooms; r++) {
           if (roomMass[r]! > ROOM_SHARE_CONTROLLED * peakAirborne && roomMass[r]! > 0) worst = Math.max(worst, roomErr[r]! / roomMass[r]!)
-          roomErr[r] = 0
-          roomMass[r] = 0
         }
         const err = ((h * h * h) / 12) * worst
         const wanted = err > 0 ? h * Math.min(2, 0.9 * Math.cbrt(num.tolerance / err)) : 2 * h
@@ -496,6 +519,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
       dtLast = h
       histSteps++
     }
+    roomErr.fill(0); roomMass.fill(0); roomSums.old.fill(0); roomSums.delta.fill(0)
     while (outIndex < nOut && times[outIndex]! < t - 1e-9) recordOutput(times[outIndex]!, (times[outIndex]! - tPrev) / h, h, hBefore)
     // Puffs at t count in the state at t (outputs are right-continuous in time).
     applyPuffs(t)

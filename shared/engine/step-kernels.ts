@@ -6,62 +6,61 @@
 /** Coefficients of the third-derivative estimate from three successive step lengths (0 if unknown). */
 export interface RateWeights { ih: number; ih1: number; ih2: number; w1: number; w2: number; w3: number }
 
+/** Per-room sums written by {@link finishStep} (one entry per room). */
+export interface RoomSums {
+  /** Σ|C'''| estimate (only when rate weights are given). */
+  err: Float64Array
+  /** Σ new c (after clipping). */
+  mass: Float64Array
+  /** Σ c before the step. */
+  old: Float64Array
+  /** Σ ΔC of the step. */
+  delta: Float64Array
+}
+
 /**
- * c ← max(c + d, 0); shifts the increment history (d2 ← d1 ← d) and, when `wt` is given, accumulates
- * per room Σ|C'''| (midpoint divided differences of the step rates) and Σc into roomErr / roomMass.
- * Writes [airborne sum of c, total negative part removed, Σ k_vent·((1−Θ)C + ΘC_new)] into `out`
- * (Θ as in accountSinks; the last sum is the ventilation removal rate of the step).
+ * c ← max(c + d, 0) and the increment history: `dOld` (the increment two steps back) is overwritten
+ * with d, so the caller swaps its two history buffers afterwards (d1 ↔ dOld) instead of shifting
+ * both. When `wt` is given, also accumulates per room Σ|C'''| (midpoint divided differences of the
+ * step rates, from d, d1 and dOld). Always accumulates per room Σc before, Σd and Σc after (the
+ * ventilation removal is booked from these per room: its rate is the same in every cell of a room).
+ * Writes [airborne sum of c, total negative part removed] into `out`.
  */
 export function finishStep(
-  c: Float64Array, d: Float64Array, d1: Float32Array, d2: Float32Array, wt: RateWeights | null,
-  roomOfCell: Int16Array, roomErr: Float64Array, roomMass: Float64Array, out: Float64Array,
-  ventOfCell: Float64Array, sink: Float64Array, dt: number,
+  c: Float64Array, d: Float64Array, d1: Float32Array, dOld: Float32Array, wt: RateWeights | null,
+  roomOfCell: Int16Array, sums: RoomSums, out: Float64Array,
 ): void {
   const n = c.length
-  let den = 0, neg = 0, vent = 0
-  if (wt === null) {
-    for (let p = 0; p < n; p++) {
-      const dp = d[p]!
-      const cp = c[p]!
-      const v = cp + dp
-      const kv = ventOfCell[p]!
-      if (kv > 0) vent += kv * (cp + (sink[p]! * dt <= 1 ? 0.5 : 1) * dp)
-      d2[p] = d1[p]!
-      d1[p] = dp
-      if (v < 0) { neg -= v; c[p] = 0 } else { c[p] = v; den += v }
+  const { err: roomErr, mass: roomMass, old: roomOld, delta: roomDelta } = sums
+  let den = 0, neg = 0
+  const ih = wt?.ih ?? 0, ih1 = wt?.ih1 ?? 0, ih2 = wt?.ih2 ?? 0, w1 = wt?.w1 ?? 0, w2 = wt?.w2 ?? 0, w3 = wt?.w3 ?? 0
+  // Rooms come in runs along x: accumulate locally and flush when the room changes (avoids a
+  // store-to-load dependency on the per-room arrays at every cell).
+  let room = -1, accE = 0, accM = 0, accC = 0, accD = 0
+  for (let p = 0; p < n; p++) {
+    const dp = d[p]!
+    const cp = c[p]!
+    const v = cp + dp
+    const r0 = dp * ih, r1 = d1[p]! * ih1, r2 = dOld[p]! * ih2
+    const e = Math.abs(((r0 - r1) * w1 - (r1 - r2) * w2) * w3)
+    dOld[p] = dp
+    const cv = v < 0 ? 0 : v
+    if (v < 0) neg -= v
+    else den += v
+    c[p] = cv
+    const r = roomOfCell[p]!
+    if (r !== room) {
+      if (room >= 0) { roomErr[room] += accE; roomMass[room] += accM; roomOld[room] += accC; roomDelta[room] += accD }
+      room = r; accE = 0; accM = 0; accC = 0; accD = 0
     }
-  } else {
-    const { ih, ih1, ih2, w1, w2, w3 } = wt
-    let room = -1, accE = 0, accM = 0
-    for (let p = 0; p < n; p++) {
-      const dp = d[p]!
-      const cp = c[p]!
-      const v = cp + dp
-      const kv = ventOfCell[p]!
-      if (kv > 0) vent += kv * (cp + (sink[p]! * dt <= 1 ? 0.5 : 1) * dp)
-      const r0 = dp * ih, r1 = d1[p]! * ih1, r2 = d2[p]! * ih2
-      const e = Math.abs(((r0 - r1) * w1 - (r1 - r2) * w2) * w3)
-      d2[p] = d1[p]!
-      d1[p] = dp
-      const cv = v < 0 ? 0 : v
-      if (v < 0) neg -= v
-      else den += v
-      c[p] = cv
-      // Rooms come in runs along x: accumulate locally and flush when the room changes (avoids a
-      // store-to-load dependency on the per-room arrays at every cell).
-      const r = roomOfCell[p]!
-      if (r !== room) {
-        if (room >= 0) { roomErr[room] += accE; roomMass[room] += accM }
-        room = r; accE = 0; accM = 0
-      }
-      accE += e
-      accM += cv
-    }
-    if (room >= 0) { roomErr[room] += accE; roomMass[room] += accM }
+    accE += e
+    accM += cv
+    accC += cp
+    accD += dp
   }
+  if (room >= 0) { roomErr[room] += accE; roomMass[room] += accM; roomOld[room] += accC; roomDelta[room] += accD }
   out[0] = den
   out[1] = neg
-  out[2] = vent
 }
 
 /** c ← c·f (the global mass-conserving fix after zeroing undershoots). */

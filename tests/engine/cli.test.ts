@@ -66,7 +66,7 @@ describe('simulate CLI', () => {
       expect(r.err).toBe('')
       expect(strip(r.out)).toBe(strip(runs[0]!.out))
     }
-    const bundle = readFileSync(join(root, 'node_modules/.cache/driftwarden/simulate-cli.mjs'), 'utf8')
+    const bundle = readFileSync(join(root, 'node_modules/.cache/driftwarden/simulate-cli.cjs'), 'utf8')
     expect(bundle.startsWith('// driftwarden-bundle {')).toBe(true)
     const again = cli(fixture('format-example.json'))
     expect(again.status).toBe(0)
