@@ -3,7 +3,7 @@ import { SimulationCancelled } from './errors'
 import { applyOperator, explicitStableStep, outgoingRates } from './operator'
 import { FACTOR_CACHE_LEVELS, factorSweep, solveFactoredColumns, type SweepFactor } from './factored-sweep'
 import { backSubstituteZ, fusedRhsSolveXYZf } from './fused-step'
-import { accountSinks, finishStep, scaleField, snapshotPlan, type RateWeights, type RoomSums } from './step-kernels'
+import { accountSinks, addColumnMultiple, finishStep, gatherDot, gatherSum, scaleField, snapshotPlan, type RateWeights, type RoomSums } from './step-kernels'
 import { buildModel, type Model } from './model'
 import type { Scenario } from './scenario-schema'
 import { thresholdsFor, type Threshold } from './thresholds'
@@ -264,9 +264,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     // fraction, spread evenly over the room's top layer (explicit part of the delta form).
     for (let q = 0; q < m.returns.length; q++) {
       const rt = m.returns[q]!
-      let sum = 0
-      for (let a = 0; a < rt.bottomCells.length; a++) sum += c[rt.bottomCells[a]!]!
-      const add = (dt * (1 - rt.exhaustFraction) * rt.rate * sum) / rt.bottomCells.length
+      const add = (dt * (1 - rt.exhaustFraction) * rt.rate * gatherSum(c, rt.bottomCells)) / rt.bottomCells.length
       for (let a = 0; a < rt.topCells.length; a++) target[rt.topCells[a]!] += add
     }
   }
@@ -297,8 +295,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     }
     for (let q = 0; q < m.returns.length; q++) {
       const rt = m.returns[q]!
-      let sum = 0
-      for (let a = 0; a < rt.bottomCells.length; a++) sum += c[rt.bottomCells[a]!]!
+      const sum = gatherSum(c, rt.bottomCells)
       inAmount[nSrc + q] = (dt * (1 - rt.exhaustFraction) * rt.rate * sum) / rt.bottomCells.length
     }
   }
@@ -395,15 +392,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     const corr = returnFactors.get(f)!
     for (let q = 0; q < m.returns.length; q++) {
       const rt = m.returns[q]!, rc = corr[q]!
-      let sdot = 0
-      for (let a = 0; a < rt.bottomCells.length; a++) sdot += rc.v[a]! * rhs[rt.bottomCells[a]!]!
-      const coef = sdot / rc.denom
-      // Layer by layer (consecutive cells of a layer are close in memory); same update per cell.
-      const z = rc.z, bottom = rt.bottomCells, nb = bottom.length
-      for (let k = 0; k < nz; k++) {
-        const off = nPlan * k, zk = nb * k
-        for (let a = 0; a < nb; a++) rhs[bottom[a]! + off] += coef * z[zk + a]!
-      }
+      addColumnMultiple(rhs, rt.bottomCells, rc.z, gatherDot(rc.v, rhs, rt.bottomCells) / rc.denom, nPlan, nz)
     }
   }
 
@@ -416,7 +405,10 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   // sums with Θ = 1/2, plus the other half of ΔC in the cells where the sink is stiff (Θ = 1). Those
   // are cells with an exhaust or a floor outflow on top of the dilution, or every ventilated cell once
   // k_vent·dt > 1 (steps far above 3600/ACH).
-  const stiffCandidates = Int32Array.from({ length: n }, (_, p) => p).filter((p) => ventOfCell[p]! > 0 && sink[p]! > ventOfCell[p]!)
+  let nStiff = 0
+  for (let p = 0; p < n; p++) if (ventOfCell[p]! > 0 && sink[p]! > ventOfCell[p]!) nStiff++
+  const stiffCandidates = new Int32Array(nStiff)
+  for (let p = 0, a = 0; p < n; p++) if (ventOfCell[p]! > 0 && sink[p]! > ventOfCell[p]!) stiffCandidates[a++] = p
   let maxVent = 0
   for (let r = 0; r < nRooms; r++) maxVent = Math.max(maxVent, m.roomDecay[r]!)
   const ventRemoval = (d: Float64Array, h: number) => {

@@ -130,3 +130,29 @@ export function snapshotPlan(
     cm[pp] = mx * 1e6
   }
 }
+
+/** Σ x[cells[a]] (in order). */
+export function gatherSum(x: Float64Array, cells: Int32Array): number {
+  let s = 0
+  for (let a = 0; a < cells.length; a++) s += x[cells[a]!]!
+  return s
+}
+
+/** Σ w[a]·x[cells[a]] (in order). */
+export function gatherDot(w: Float64Array, x: Float64Array, cells: Int32Array): number {
+  let s = 0
+  for (let a = 0; a < cells.length; a++) s += w[a]! * x[cells[a]!]!
+  return s
+}
+
+/**
+ * r += coef·z over the columns whose bottom cells are listed, z stored compactly as z[k·nb + a] for
+ * column a at layer k. Layer by layer: consecutive cells of a layer are close in memory.
+ */
+export function addColumnMultiple(r: Float64Array, bottom: Int32Array, z: Float64Array, coef: number, nPlan: number, nz: number): void {
+  const nb = bottom.length
+  for (let k = 0; k < nz; k++) {
+    const off = nPlan * k, zk = nb * k
+    for (let a = 0; a < nb; a++) r[bottom[a]! + off] += coef * z[zk + a]!
+  }
+}
