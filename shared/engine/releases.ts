@@ -9,13 +9,16 @@ export const P_REF_PA = 101325
 /**
  * A release as a function of time. Volumes are pure gas at 25 °C and 1 atm (m³).
  * `cumulative(t)` is the continuous part released in [0, t]; `puffs` are instantaneous additions.
- * `breakpoints` are times where the rate jumps (the time stepper lands on them and restarts small).
+ * `breakpoints` are times where the rate jumps (the time stepper lands on them and restarts small);
+ * `kinks` are times where only the rate's slope jumps (the stepper lands on them, so that no step
+ * straddles the change, and its error control carries on).
  */
 export interface ReleaseHistory {
   cumulative(t: number): number
   /** Instantaneous releases: time (s) and volume (m³). */
   puffs: { t: number; volume: number }[]
   breakpoints: number[]
+  kinks: number[]
   /** Volume released over all time, m³ (Infinity for an open-ended constant release). */
   total: number
 }
@@ -145,10 +148,20 @@ function cylinderHistory(r: Extract<Release, { kind: 'cylinder' }>, gas: Orifice
   const totalMass = mLiquid + Math.max(pGas0 - pa, 0) * kgPerPa
   const bp = [r.start_s]
   if (r.liquefied && Number.isFinite(tLiquidEnd)) bp.push(r.start_s + tLiquidEnd)
+  // The rate is continuous but its slope jumps where the flow unchokes and where the cylinder reaches
+  // ambient pressure (the subsonic rate falls linearly to zero there).
+  const kinks: number[] = []
+  const tBlowdown = r.start_s + (r.liquefied ? tLiquidEnd : 0)
+  if (Number.isFinite(tBlowdown) && pGas0 > pa) {
+    if (pGas0 > pChoke) kinks.push(tBlowdown + tau * Math.log(pGas0 / pChoke))
+    const last = tArr.length - 1
+    if (last > 0 && pArr[last]! - pa <= 1e-9 * (pGas0 - pa)) kinks.push(tBlowdown + tArr[last]!)
+  }
   return {
     cumulative: (t) => massToReferenceVolume(massAt(t), M),
     puffs: [],
     breakpoints: bp,
+    kinks,
     total: massToReferenceVolume(totalMass, M),
   }
 }
@@ -169,11 +182,12 @@ export function releaseHistory(release: Release, gas: OrificeGas, horizon: numbe
         cumulative: (t) => Math.min(q * Math.max(0, Math.min(t, t1) - t0), cap),
         puffs: [],
         breakpoints: [t0, Math.min(t1, tCap)].filter(Number.isFinite),
+        kinks: [],
         total: Math.min(q * (t1 - t0), cap),
       }
     }
     case 'instant':
-      return { cumulative: () => 0, puffs: [{ t: release.at_s, volume: release.volume_m3 }], breakpoints: [release.at_s], total: release.volume_m3 }
+      return { cumulative: () => 0, puffs: [{ t: release.at_s, volume: release.volume_m3 }], breakpoints: [release.at_s], kinks: [], total: release.volume_m3 }
     case 'schedule': {
       const pts = release.points
       const n = pts.length
@@ -197,7 +211,7 @@ export function releaseHistory(release: Release, gas: OrificeGas, horizon: numbe
         const slope = (qs[i + 1]! - qs[i]!) / (ts[i + 1]! - ts[i]!)
         return cum[i]! + qs[i]! * dt + 0.5 * slope * dt * dt
       }
-      return { cumulative: (t) => Math.min(raw(t), cap), puffs: [], breakpoints: Array.from(ts), total: Math.min(cum[n - 1]!, cap) }
+      return { cumulative: (t) => Math.min(raw(t), cap), puffs: [], breakpoints: Array.from(ts), kinks: [], total: Math.min(cum[n - 1]!, cap) }
     }
     case 'cylinder':
       return cylinderHistory(release, gas, horizon)

@@ -139,10 +139,13 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     return v
   }
 
-  // Events: release breakpoints and puffs; the stepper lands on them.
-  const breaks = new Set<number>()
-  for (const src of m.sources) for (const b of src.history.breakpoints) if (b > 0 && b < duration) breaks.add(b)
-  const breakList = Float64Array.from([...breaks].sort((a, b) => a - b))
+  // Events the stepper lands on: release breakpoints (the rate jumps, or a puff: restart from a small
+  // step) and kinks (only the rate's slope jumps: no restart). A time that is both is a breakpoint.
+  const events = new Map<number, 'break' | 'kink'>()
+  for (const src of m.sources) for (const b of src.history.kinks) if (b > 0 && b < duration) events.set(b, 'kink')
+  for (const src of m.sources) for (const b of src.history.breakpoints) if (b > 0 && b < duration) events.set(b, 'break')
+  const breakList = Float64Array.from([...events.keys()].sort((a, b) => a - b))
+  const isKink = Uint8Array.from(breakList, (b) => (events.get(b) === 'kink' ? 1 : 0))
   const puffs = m.sources.flatMap((src) => src.history.puffs.filter((p) => p.t <= duration).map((p) => ({ cell: src.cell, t: p.t, v: p.volume })))
   const puffDone = new Uint8Array(puffs.length)
   const released = new Float64Array(m.sources.length)
@@ -489,7 +492,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     steps++
     if (h < minDt) minDt = h
     if (h > maxDt) maxDt = h
-    const hitBreak = nextBreak < breakList.length && Math.abs(tNew - breakList[nextBreak]!) < 1e-9
+    const hitBreak = nextBreak < breakList.length && Math.abs(tNew - breakList[nextBreak]!) < 1e-9 && isKink[nextBreak] === 0
     const tPrev = t
     t = Math.abs(tNew - tEvent) < 1e-9 ? tEvent : tNew
     observeStep(tPrev, h)

@@ -53,6 +53,18 @@ describe('cylinder blow-down (isothermal)', () => {
     expect(hist.total).toBeCloseTo(volAt(101325), 6)
     expect(hist.cumulative(40000)).toBeGreaterThan(0.99 * hist.total)
   })
+  it('marks where the flow unchokes (P = Pa / r*, at tau ln(P0 r* / Pa) = 20,871 s) and where the cylinder is empty', () => {
+    // Choked isothermal blow-down is P0 exp(-t/tau) (same source), so it reaches Pa / r* at tau ln(P0 r*/Pa).
+    const [unchoke, empty] = hist.kinks
+    expect(unchoke).toBeCloseTo(blowdownTimeConstant(N2, 0.049, area(0.254e-3), 293.15) * Math.log((150e5 * criticalPressureRatio(1.4)) / 101325), 3)
+    expect(unchoke! / 20871).toBeCloseTo(1, 3)
+    // Empty: the subsonic rate falls to zero there and stays zero.
+    expect(empty!).toBeGreaterThan(unchoke!)
+    expect(hist.cumulative(empty!) / hist.total).toBeCloseTo(1, 9)
+    expect(hist.cumulative(empty!) - hist.cumulative(empty! - 60)).toBeGreaterThan(0)
+    expect(hist.cumulative(empty! + 60)).toBe(hist.cumulative(empty!))
+    expect(hist.breakpoints).toEqual([0])
+  })
   it('a restrictive flow orifice caps the flow at the smaller CdA', () => {
     const big = ReleaseSchema.parse({ kind: 'cylinder', water_volume_m3: 0.049, pressure_pa: 150e5, orifice_diameter_m: 5e-3, rfo_diameter_m: 0.254e-3 })
     const h2 = releaseHistory(big, N2, 1000)
