@@ -126,22 +126,61 @@ export function solveFactored(r: Float64Array, f: SweepFactor): void {
     }
     return
   }
-  for (let o = 0; o < outer; o++) {
-    const base = o * block
-    for (let q = 0; q < inner; q++) r[base + q] = r[base + q]! * a[base + q]!
-    for (let m = 1; m < n; m++) {
-      const row = base + m * inner
-      for (let q = 0; q < inner; q++) {
-        const p = row + q
-        r[p] = (r[p]! + dt * fwd[p - inner]! * r[p - inner]!) * a[p]!
-      }
+  for (let o = 0; o < outer; o++) solveBlockAcross(r, f, o * block)
+}
+
+/**
+ * Solve the lines of one block of a factor with inner > 1 in place: line q (0 ≤ q < inner) holds the
+ * cells base + m·inner + q, m = 0 … n − 1 (the y lines of one layer, or every z column). Eight lines
+ * are eliminated together, each carrying its running value in a register instead of reloading the
+ * previous position (independent chains the CPU overlaps; twice as fast as sweeping position by
+ * position across all lines). Every cell sees the same operations in the same order as a line solved
+ * alone, so results do not depend on the grouping.
+ */
+export function solveBlockAcross(r: Float64Array, f: SweepFactor, base: number): void {
+  const { a, u, fwd, dt, n, inner } = f
+  const last = base + (n - 1) * inner
+  let q = 0
+  for (; q + 8 <= inner; q += 8) {
+    const b = base + q
+    let y0 = r[b]! * a[b]!, y1 = r[b + 1]! * a[b + 1]!, y2 = r[b + 2]! * a[b + 2]!, y3 = r[b + 3]! * a[b + 3]!
+    let y4 = r[b + 4]! * a[b + 4]!, y5 = r[b + 5]! * a[b + 5]!, y6 = r[b + 6]! * a[b + 6]!, y7 = r[b + 7]! * a[b + 7]!
+    r[b] = y0; r[b + 1] = y1; r[b + 2] = y2; r[b + 3] = y3; r[b + 4] = y4; r[b + 5] = y5; r[b + 6] = y6; r[b + 7] = y7
+    const end = last + q
+    for (let p = b + inner; p <= end; p += inner) {
+      const pm = p - inner
+      y0 = (r[p]! + dt * fwd[pm]! * y0) * a[p]!; r[p] = y0
+      y1 = (r[p + 1]! + dt * fwd[pm + 1]! * y1) * a[p + 1]!; r[p + 1] = y1
+      y2 = (r[p + 2]! + dt * fwd[pm + 2]! * y2) * a[p + 2]!; r[p + 2] = y2
+      y3 = (r[p + 3]! + dt * fwd[pm + 3]! * y3) * a[p + 3]!; r[p + 3] = y3
+      y4 = (r[p + 4]! + dt * fwd[pm + 4]! * y4) * a[p + 4]!; r[p + 4] = y4
+      y5 = (r[p + 5]! + dt * fwd[pm + 5]! * y5) * a[p + 5]!; r[p + 5] = y5
+      y6 = (r[p + 6]! + dt * fwd[pm + 6]! * y6) * a[p + 6]!; r[p + 6] = y6
+      y7 = (r[p + 7]! + dt * fwd[pm + 7]! * y7) * a[p + 7]!; r[p + 7] = y7
     }
-    for (let m = n - 2; m >= 0; m--) {
-      const row = base + m * inner
-      for (let q = 0; q < inner; q++) {
-        const p = row + q
-        r[p] = r[p]! + u[p]! * r[p + inner]!
-      }
+    for (let p = end - inner; p >= b; p -= inner) {
+      y0 = r[p]! + u[p]! * y0; r[p] = y0
+      y1 = r[p + 1]! + u[p + 1]! * y1; r[p + 1] = y1
+      y2 = r[p + 2]! + u[p + 2]! * y2; r[p + 2] = y2
+      y3 = r[p + 3]! + u[p + 3]! * y3; r[p + 3] = y3
+      y4 = r[p + 4]! + u[p + 4]! * y4; r[p + 4] = y4
+      y5 = r[p + 5]! + u[p + 5]! * y5; r[p + 5] = y5
+      y6 = r[p + 6]! + u[p + 6]! * y6; r[p + 6] = y6
+      y7 = r[p + 7]! + u[p + 7]! * y7; r[p + 7] = y7
+    }
+  }
+  // Remaining lines one at a time.
+  for (; q < inner; q++) {
+    const b = base + q, end = last + q
+    let y = r[b]! * a[b]!
+    r[b] = y
+    for (let p = b + inner; p <= end; p += inner) {
+      y = (r[p]! + dt * fwd[p - inner]! * y) * a[p]!
+      r[p] = y
+    }
+    for (let p = end - inner; p >= b; p -= inner) {
+      y = r[p]! + u[p]! * y
+      r[p] = y
     }
   }
 }

@@ -1,34 +1,30 @@
-import type { SweepFactor } from './factored-sweep'
+import { solveBlockAcross, type SweepFactor } from './factored-sweep'
 import type { Model } from './model'
 import { rhsRange } from './operator'
 
 /**
- * The right-hand side and the first two and a half sweeps of the implicit step in one pass over the
- * grid, layer by layer, so each layer's data is reused from cache instead of streaming the whole
- * field through memory four times:
+ * The right-hand side and the x and y sweeps of the implicit step in one pass over the grid, layer by
+ * layer, so each layer's data is reused from cache:
  *
  *     for each layer k:  r = dt·(−(A + K) c) + inputs   row by row (as applyOperator + addInputs)
  *                        x-solve each row                 (as solveFactored with the x factor)
- *                        y-solve the layer                (as solveFactored with the y factor)
- *                        forward elimination of z at k    (first half of the z solve)
+ *                        y-solve the layer                (solveBlockAcross with the y factor)
  *
  * Every cell sees exactly the same floating-point operations in the same order as the separate
  * kernels (the sparse inputs are added per cell in the same order), so results are bit-identical;
- * the caller finishes with {@link backSubstituteZ}. Allocates nothing.
+ * the caller finishes with the z sweep (solveFactored with the z factor). Allocates nothing.
  *
  * Inputs are sparse: entry e adds amount[entryAmount[e]] to cell entryCell[e]; entries are grouped by
  * x-row (row = cell / nx) in CSR form rowStart (length ny·nz + 1), in the order addInputs applies them.
  */
-export function fusedRhsSolveXYZf(
+export function fusedRhsSolveXY(
   m: Model, c: Float64Array, out: Float64Array, r: Float64Array, dt: number,
-  fx: SweepFactor, fy: SweepFactor, fz: SweepFactor,
+  fx: SweepFactor, fy: SweepFactor,
   rowStart: Int32Array, entryCell: Int32Array, entryAmount: Int32Array, amount: Float64Array,
 ): void {
   const { nx, ny, nz } = m
   const nPlan = nx * ny
   const ax = fx.a, fwx = fx.fwd, ux = fx.u, dtx = fx.dt
-  const ay = fy.a, fwy = fy.fwd, uy = fy.u, dty = fy.dt
-  const az = fz.a, fwz = fz.fwd, dtz = fz.dt
   for (let k = 0; k < nz; k++) {
     const interiorLayer = k > 0 && k < nz - 1
     // 1. Right-hand side and x-solve, four rows at a time (their x-lines are independent chains,
@@ -74,42 +70,7 @@ export function fusedRhsSolveXYZf(
       }
       j += rows
     }
-    // 2. y-solve of layer k: lines along y, vectorised over x.
-    const lb = k * nPlan
-    for (let q = 0; q < nx; q++) r[lb + q] = r[lb + q]! * ay[lb + q]!
-    for (let jj = 1; jj < ny; jj++) {
-      const rowp = lb + jj * nx
-      for (let q = 0; q < nx; q++) {
-        const p = rowp + q
-        r[p] = (r[p]! + dty * fwy[p - nx]! * r[p - nx]!) * ay[p]!
-      }
-    }
-    for (let jj = ny - 2; jj >= 0; jj--) {
-      const rowp = lb + jj * nx
-      for (let q = 0; q < nx; q++) {
-        const p = rowp + q
-        r[p] = r[p]! + uy[p]! * r[p + nx]!
-      }
-    }
-    // 3. z forward elimination at layer k (needs layer k − 1, already eliminated).
-    if (k === 0) {
-      for (let p = 0; p < nPlan; p++) r[p] = r[p]! * az[p]!
-    } else {
-      const e = lb + nPlan
-      for (let p = lb; p < e; p++) r[p] = (r[p]! + dtz * fwz[p - nPlan]! * r[p - nPlan]!) * az[p]!
-    }
-  }
-}
-
-
-/** Second half of the z solve: back substitution over the layers (as in solveFactored). */
-export function backSubstituteZ(r: Float64Array, fz: SweepFactor): void {
-  const { u, n: nz, inner: nPlan } = fz
-  for (let k = nz - 2; k >= 0; k--) {
-    const row = k * nPlan
-    for (let q = 0; q < nPlan; q++) {
-      const p = row + q
-      r[p] = r[p]! + u[p]! * r[p + nPlan]!
-    }
+    // 2. y-solve of layer k: its lines along y, eight at a time.
+    solveBlockAcross(r, fy, k * nPlan)
   }
 }

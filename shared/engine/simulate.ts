@@ -1,8 +1,8 @@
 import type { Gas } from '../gases/gas-schema'
 import { SimulationCancelled } from './errors'
 import { applyOperator, explicitStableStep, outgoingRates } from './operator'
-import { FACTOR_CACHE_LEVELS, factorSweep, solveFactoredColumns, type SweepFactor } from './factored-sweep'
-import { backSubstituteZ, fusedRhsSolveXYZf } from './fused-step'
+import { FACTOR_CACHE_LEVELS, factorSweep, solveFactored, solveFactoredColumns, type SweepFactor } from './factored-sweep'
+import { fusedRhsSolveXY } from './fused-step'
 import { accountSinks, addColumnMultiple, finishStep, gatherDot, gatherSum, scaleField, snapshotPlan, type RateWeights, type RoomSums } from './step-kernels'
 import { buildModel, type Model } from './model'
 import type { Scenario } from './scenario-schema'
@@ -385,12 +385,12 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     // θ = 1/2 (Crank-Nicolson) for transport, Θ per cell for sinks (see sinkTheta). It keeps the exact
     // discrete steady state, and the sink factor is solved last so that the removal is exactly
     // dt·K·((1−Θ)C + Θ C_new) and mass closes to round-off.
-    // Right-hand side, x and y solves and the z forward elimination fused layer by layer (the same
-    // arithmetic as applyOperator + addInputs + solveFactored ×3), then the z back substitution.
+    // Right-hand side and the x and y solves fused layer by layer (the same arithmetic as
+    // applyOperator + addInputs + solveFactored ×2), then the z solve over all columns.
     inputAmounts(dt, tNew)
     const f = factorsFor(dt, level)
-    fusedRhsSolveXYZf(m, c, out, rhs, dt, f[0]!, f[1]!, f[2]!, inRowStart, inCell, inSlot, inAmount)
-    backSubstituteZ(rhs, f[2]!)
+    fusedRhsSolveXY(m, c, out, rhs, dt, f[0]!, f[1]!, inRowStart, inCell, inSlot, inAmount)
+    solveFactored(rhs, f[2]!)
     // Sherman-Morrison for the rank-one return coupling of each cleanroom (bottom layer -> top layer).
     const corr = returnFactors.get(f)!
     for (let q = 0; q < m.returns.length; q++) {
