@@ -34,31 +34,31 @@ export function finishStep(
   const { err: roomErr, mass: roomMass, old: roomOld, delta: roomDelta } = sums
   let den = 0, neg = 0
   const ih = wt?.ih ?? 0, ih1 = wt?.ih1 ?? 0, ih2 = wt?.ih2 ?? 0, w1 = wt?.w1 ?? 0, w2 = wt?.w2 ?? 0, w3 = wt?.w3 ?? 0
-  // Rooms come in runs along x: accumulate locally and flush when the room changes (avoids a
-  // store-to-load dependency on the per-room arrays at every cell).
-  let room = -1, accE = 0, accM = 0, accC = 0, accD = 0
-  for (let p = 0; p < n; p++) {
-    const dp = d[p]!
-    const cp = c[p]!
-    const v = cp + dp
-    const r0 = dp * ih, r1 = d1[p]! * ih1, r2 = dOld[p]! * ih2
-    const e = Math.abs(((r0 - r1) * w1 - (r1 - r2) * w2) * w3)
-    dOld[p] = dp
-    const cv = v < 0 ? 0 : v
-    if (v < 0) neg -= v
-    else den += v
-    c[p] = cv
-    const r = roomOfCell[p]!
-    if (r !== room) {
-      if (room >= 0) { roomErr[room] += accE; roomMass[room] += accM; roomOld[room] += accC; roomDelta[room] += accD }
-      room = r; accE = 0; accM = 0; accC = 0; accD = 0
+  // Rooms come in runs along x: one run at a time, summed locally and added to its room at the end
+  // (no per-cell store into the room arrays, no per-cell room test in the inner loop).
+  for (let p = 0; p < n; ) {
+    const room = roomOfCell[p]!
+    let end = p + 1
+    while (end < n && roomOfCell[end] === room) end++
+    let accE = 0, accM = 0, accC = 0, accD = 0
+    for (let i = p; i < end; i++) {
+      const dp = d[i]!
+      const cp = c[i]!
+      const v = cp + dp
+      const r0 = dp * ih, r1 = d1[i]! * ih1, r2 = dOld[i]! * ih2
+      accE += Math.abs(((r0 - r1) * w1 - (r1 - r2) * w2) * w3)
+      dOld[i] = dp
+      const cv = v < 0 ? 0 : v
+      neg += cv - v // −v where v < 0, else +0
+      den += cv
+      c[i] = cv
+      accM += cv
+      accC += cp
+      accD += dp
     }
-    accE += e
-    accM += cv
-    accC += cp
-    accD += dp
+    if (room >= 0) { roomErr[room] += accE; roomMass[room] += accM; roomOld[room] += accC; roomDelta[room] += accD }
+    p = end
   }
-  if (room >= 0) { roomErr[room] += accE; roomMass[room] += accM; roomOld[room] += accC; roomDelta[room] += accD }
   out[0] = den
   out[1] = neg
 }
