@@ -184,24 +184,3 @@ export function solveBlockAcross(r: Float64Array, f: SweepFactor, base: number):
     }
   }
 }
-
-/**
- * solveFactored for a factor with outer = 1 (the z sweep), restricted to the lines (columns) whose
- * first cell is listed in `cols`; the other lines are left alone (a zero right-hand side stays zero).
- * Same operations per cell as solveFactored.
- */
-export function solveFactoredColumns(r: Float64Array, f: SweepFactor, cols: Int32Array): void {
-  const { a, u, fwd, dt, n, inner } = f
-  for (let c = 0; c < cols.length; c++) {
-    const q = cols[c]!
-    r[q] = r[q]! * a[q]!
-    for (let m = 1; m < n; m++) {
-      const p = m * inner + q
-      r[p] = (r[p]! + dt * fwd[p - inner]! * r[p - inner]!) * a[p]!
-    }
-    for (let m = n - 2; m >= 0; m--) {
-      const p = m * inner + q
-      r[p] = r[p]! + u[p]! * r[p + inner]!
-    }
-  }
-}

@@ -1,9 +1,9 @@
 import type { Gas } from '../gases/gas-schema'
 import { SimulationCancelled } from './errors'
 import { applyOperator, explicitStableStep, outgoingRates } from './operator'
-import { FACTOR_CACHE_LEVELS, factorSweep, solveFactored, solveFactoredColumns, type SweepFactor } from './factored-sweep'
+import { FACTOR_CACHE_LEVELS, factorSweep, solveFactored, type SweepFactor } from './factored-sweep'
 import { fusedRhsSolveXY } from './fused-step'
-import { accountSinks, addColumnMultiple, finishStep, gatherDot, gatherSum, scaleField, snapshotPlan, type RateWeights, type RoomSums } from './step-kernels'
+import { accountSinks, addColumnMultiple, cellRuns, finishStep, runDot, runSum, scaleField, snapshotPlan, type RateWeights, type RoomSums } from './step-kernels'
 import { buildModel, type Model } from './model'
 import type { Scenario } from './scenario-schema'
 import { thresholdsFor, type Threshold } from './thresholds'
@@ -267,7 +267,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     // fraction, spread evenly over the room's top layer (explicit part of the delta form).
     for (let q = 0; q < m.returns.length; q++) {
       const rt = m.returns[q]!
-      const add = (dt * (1 - rt.exhaustFraction) * rt.rate * gatherSum(c, rt.bottomCells)) / rt.bottomCells.length
+      const add = (dt * (1 - rt.exhaustFraction) * rt.rate * runSum(c, bottomRuns[q]!)) / rt.bottomCells.length
       for (let a = 0; a < rt.topCells.length; a++) target[rt.topCells[a]!] += add
     }
   }
@@ -298,7 +298,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     }
     for (let q = 0; q < m.returns.length; q++) {
       const rt = m.returns[q]!
-      const sum = gatherSum(c, rt.bottomCells)
+      const sum = runSum(c, bottomRuns[q]!)
       inAmount[nSrc + q] = (dt * (1 - rt.exhaustFraction) * rt.rate * sum) / rt.bottomCells.length
     }
   }
@@ -310,10 +310,12 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   // z is non-zero only in the room's columns (the z factor couples cells of one column): solved in a
   // shared scratch field, kept compactly as z[k·nb + a] for column a, and the scratch cleared again.
   const zScratch = new Float64Array(n)
+  const bottomRuns = m.returns.map((rt) => cellRuns(rt.bottomCells))
   const returnCorrection = (rt: Model['returns'][number], fz: SweepFactor, h: number) => {
     const bottom = rt.bottomCells, nb = bottom.length
     for (let a = 0; a < rt.topCells.length; a++) zScratch[rt.topCells[a]!] = 1
-    solveFactoredColumns(zScratch, fz, bottom)
+    // The whole z solve is faster than the room's columns alone; the other columns stay exactly 0.
+    solveFactored(zScratch, fz)
     const z = new Float64Array(nb * nz)
     for (let k = 0; k < nz; k++) {
       const off = nPlan * k
@@ -395,7 +397,8 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     const corr = returnFactors.get(f)!
     for (let q = 0; q < m.returns.length; q++) {
       const rt = m.returns[q]!, rc = corr[q]!
-      addColumnMultiple(rhs, rt.bottomCells, rc.z, gatherDot(rc.v, rhs, rt.bottomCells) / rc.denom, nPlan, nz)
+      const runs = bottomRuns[q]!
+      addColumnMultiple(rhs, runs, rt.bottomCells.length, rc.z, runDot(rc.v, rhs, runs) / rc.denom, nPlan, nz)
     }
   }
 

@@ -131,28 +131,49 @@ export function snapshotPlan(
   }
 }
 
-/** Σ x[cells[a]] (in order). */
-export function gatherSum(x: Float64Array, cells: Int32Array): number {
+/**
+ * Ascending cell indices as runs of consecutive cells: [start0, length0, start1, length1, …]. The
+ * cleanroom return's cells form a few long runs, so its loops index directly instead of gathering.
+ */
+export function cellRuns(cells: Int32Array): Int32Array {
+  const runs: number[] = []
+  for (let a = 0; a < cells.length; ) {
+    let b = a + 1
+    while (b < cells.length && cells[b] === cells[b - 1]! + 1) b++
+    runs.push(cells[a]!, b - a)
+    a = b
+  }
+  return Int32Array.from(runs)
+}
+
+/** Σ x over the cells of `runs` (from {@link cellRuns}), in ascending cell order. */
+export function runSum(x: Float64Array, runs: Int32Array): number {
   let s = 0
-  for (let a = 0; a < cells.length; a++) s += x[cells[a]!]!
+  for (let k = 0; k < runs.length; k += 2) {
+    for (let p = runs[k]!, e = p + runs[k + 1]!; p < e; p++) s += x[p]!
+  }
   return s
 }
 
-/** Σ w[a]·x[cells[a]] (in order). */
-export function gatherDot(w: Float64Array, x: Float64Array, cells: Int32Array): number {
-  let s = 0
-  for (let a = 0; a < cells.length; a++) s += w[a]! * x[cells[a]!]!
+/** Σ w[a]·x[cell a] over the cells of `runs`, a counting the cells in ascending order. */
+export function runDot(w: Float64Array, x: Float64Array, runs: Int32Array): number {
+  let s = 0, a = 0
+  for (let k = 0; k < runs.length; k += 2) {
+    for (let p = runs[k]!, e = p + runs[k + 1]!; p < e; p++, a++) s += w[a]! * x[p]!
+  }
   return s
 }
 
 /**
- * r += coef·z over the columns whose bottom cells are listed, z stored compactly as z[k·nb + a] for
- * column a at layer k. Layer by layer: consecutive cells of a layer are close in memory.
+ * r += coef·z over the columns of the plan cells in `runs`, z stored compactly as z[k·nb + a] for the
+ * a-th column (ascending) at layer k. Layer by layer: consecutive cells of a layer are close in memory.
  */
-export function addColumnMultiple(r: Float64Array, bottom: Int32Array, z: Float64Array, coef: number, nPlan: number, nz: number): void {
-  const nb = bottom.length
+export function addColumnMultiple(r: Float64Array, runs: Int32Array, nb: number, z: Float64Array, coef: number, nPlan: number, nz: number): void {
   for (let k = 0; k < nz; k++) {
-    const off = nPlan * k, zk = nb * k
-    for (let a = 0; a < nb; a++) r[bottom[a]! + off] += coef * z[zk + a]!
+    const off = nPlan * k
+    let a = nb * k
+    for (let q = 0; q < runs.length; q += 2) {
+      for (let p = runs[q]! + off, e = p + runs[q + 1]!; p < e; p++, a++) r[p] += coef * z[a]!
+    }
   }
 }
