@@ -73,8 +73,8 @@ const TWA_WINDOW_S = 900
 /**
  * A room's local error enters the step control once it holds this share of the most gas airborne so
  * far. Below it a room's front is a trace whose relative error does not set the worst probe error. On
- * the benchmark floor (steps, worst probe error against a 0.5 s reference): 1e-4 183, 0.48 %;
- * 1e-3 150, 0.48 %; 3e-3 140, 0.48 %; 5e-3 133, 0.48 %; 1e-2 129, 0.60 %; 3e-2 120, 0.92 %.
+ * the benchmark floor (steps, worst probe error against a 0.5 s reference): 1e-3 154, 0.48 %;
+ * 5e-3 139, 0.48 %; 1e-2 135, 0.60 % (before kinks were landed on: 1e-4 183, 3e-2 0.92 %).
  */
 const ROOM_SHARE_CONTROLLED = 5e-3
 
