@@ -84,46 +84,10 @@ export function factorSweep(fwd: Float32Array, bwd: Float32Array, dt: number, ou
 
 /** Solve (I + dt·A + diag) x = r in place with a factor from factorSweep. */
 export function solveFactored(r: Float64Array, f: SweepFactor): void {
-  const { a, u, fwd, dt, outer, n, inner } = f
+  const { outer, n, inner } = f
   const block = n * inner
   if (inner === 1) {
-    // Lines along x: each line is a serial recurrence, so its cost is the latency of the chain.
-    // Four lines are eliminated together (independent chains the CPU overlaps); every line sees
-    // exactly the same operations in the same order as when solved alone.
-    let o = 0
-    for (; o + 4 <= outer; o += 4) {
-      const b0 = o * block, b1 = b0 + n, b2 = b1 + n, b3 = b2 + n
-      let y0 = r[b0]! * a[b0]!, y1 = r[b1]! * a[b1]!, y2 = r[b2]! * a[b2]!, y3 = r[b3]! * a[b3]!
-      r[b0] = y0; r[b1] = y1; r[b2] = y2; r[b3] = y3
-      for (let m = 1; m < n; m++) {
-        const p0 = b0 + m, p1 = b1 + m, p2 = b2 + m, p3 = b3 + m
-        y0 = (r[p0]! + dt * fwd[p0 - 1]! * y0) * a[p0]!; r[p0] = y0
-        y1 = (r[p1]! + dt * fwd[p1 - 1]! * y1) * a[p1]!; r[p1] = y1
-        y2 = (r[p2]! + dt * fwd[p2 - 1]! * y2) * a[p2]!; r[p2] = y2
-        y3 = (r[p3]! + dt * fwd[p3 - 1]! * y3) * a[p3]!; r[p3] = y3
-      }
-      for (let m = n - 2; m >= 0; m--) {
-        const p0 = b0 + m, p1 = b1 + m, p2 = b2 + m, p3 = b3 + m
-        y0 = r[p0]! + u[p0]! * y0; r[p0] = y0
-        y1 = r[p1]! + u[p1]! * y1; r[p1] = y1
-        y2 = r[p2]! + u[p2]! * y2; r[p2] = y2
-        y3 = r[p3]! + u[p3]! * y3; r[p3] = y3
-      }
-    }
-    for (; o < outer; o++) {
-      const base = o * block, end = base + n
-      let y = r[base]! * a[base]!
-      r[base] = y
-      for (let p = base + 1; p < end; p++) {
-        y = (r[p]! + dt * fwd[p - 1]! * y) * a[p]!
-        r[p] = y
-      }
-      let x = r[end - 1]!
-      for (let p = end - 2; p >= base; p--) {
-        x = r[p]! + u[p]! * x
-        r[p] = x
-      }
-    }
+    solveLinesAlong(r, f, 0, outer)
     return
   }
   for (let o = 0; o < outer; o++) solveBlockAcross(r, f, o * block)
@@ -181,6 +145,50 @@ export function solveBlockAcross(r: Float64Array, f: SweepFactor, base: number):
     for (let p = end - inner; p >= b; p -= inner) {
       y = r[p]! + u[p]! * y
       r[p] = y
+    }
+  }
+}
+
+/**
+ * Solve `count` consecutive lines of a factor with inner = 1 (x lines, f.n cells each) in place,
+ * starting at cell `base`. Each line is a serial recurrence, so its cost is the latency of the chain:
+ * four lines are eliminated together (independent chains the CPU overlaps), and every line sees
+ * exactly the same operations in the same order as when solved alone.
+ */
+export function solveLinesAlong(r: Float64Array, f: SweepFactor, base: number, count: number): void {
+  const { a, u, fwd, dt, n } = f
+  let o = 0
+  for (; o + 4 <= count; o += 4) {
+    const b0 = base + o * n, b1 = b0 + n, b2 = b1 + n, b3 = b2 + n
+    let y0 = r[b0]! * a[b0]!, y1 = r[b1]! * a[b1]!, y2 = r[b2]! * a[b2]!, y3 = r[b3]! * a[b3]!
+    r[b0] = y0; r[b1] = y1; r[b2] = y2; r[b3] = y3
+    for (let m = 1; m < n; m++) {
+      const p0 = b0 + m, p1 = b1 + m, p2 = b2 + m, p3 = b3 + m
+      y0 = (r[p0]! + dt * fwd[p0 - 1]! * y0) * a[p0]!; r[p0] = y0
+      y1 = (r[p1]! + dt * fwd[p1 - 1]! * y1) * a[p1]!; r[p1] = y1
+      y2 = (r[p2]! + dt * fwd[p2 - 1]! * y2) * a[p2]!; r[p2] = y2
+      y3 = (r[p3]! + dt * fwd[p3 - 1]! * y3) * a[p3]!; r[p3] = y3
+    }
+    for (let m = n - 2; m >= 0; m--) {
+      const p0 = b0 + m, p1 = b1 + m, p2 = b2 + m, p3 = b3 + m
+      y0 = r[p0]! + u[p0]! * y0; r[p0] = y0
+      y1 = r[p1]! + u[p1]! * y1; r[p1] = y1
+      y2 = r[p2]! + u[p2]! * y2; r[p2] = y2
+      y3 = r[p3]! + u[p3]! * y3; r[p3] = y3
+    }
+  }
+  for (; o < count; o++) {
+    const b = base + o * n, end = b + n
+    let y = r[b]! * a[b]!
+    r[b] = y
+    for (let p = b + 1; p < end; p++) {
+      y = (r[p]! + dt * fwd[p - 1]! * y) * a[p]!
+      r[p] = y
+    }
+    let x = r[end - 1]!
+    for (let p = end - 2; p >= b; p--) {
+      x = r[p]! + u[p]! * x
+      r[p] = x
     }
   }
 }
