@@ -67,6 +67,18 @@ export function blowdownTimeConstant(gas: OrificeGas, volumeM3: number, cdA: num
   return (volumeM3 * gas.molarMass) / (R_GAS * t0 * cdA * phi)
 }
 
+/** When a non-decreasing cumulative release first reaches the inventory `cap` (Infinity if it never does). */
+function capTime(cumulative: (t: number) => number, cap: number, t0: number, t1: number): number {
+  if (!(cumulative(t1) >= cap)) return Infinity
+  let lo = t0, hi = t1
+  while (hi - lo > 1e-9 * Math.max(1, Math.abs(hi))) {
+    const mid = 0.5 * (lo + hi)
+    if (cumulative(mid) >= cap) hi = mid
+    else lo = mid
+  }
+  return hi
+}
+
 function binarySearch(ts: Float64Array, t: number): number {
   let lo = 0, hi = ts.length - 1
   while (hi - lo > 1) {
@@ -211,7 +223,17 @@ export function releaseHistory(release: Release, gas: OrificeGas, horizon: numbe
         const slope = (qs[i + 1]! - qs[i]!) / (ts[i + 1]! - ts[i]!)
         return cum[i]! + qs[i]! * dt + 0.5 * slope * dt * dt
       }
-      return { cumulative: (t) => Math.min(raw(t), cap), puffs: [], breakpoints: Array.from(ts), kinks: [], total: Math.min(cum[n - 1]!, cap) }
+      // The rate jumps at a step schedule's points, at a linear schedule's first and last points and
+      // where the inventory runs out; a linear schedule's inner points only bend it.
+      const tCap = capTime(raw, cap, ts[0]!, ts[n - 1]!)
+      const jumps = linear ? [ts[0]!, ts[n - 1]!] : Array.from(ts)
+      const bends = linear ? Array.from(ts.subarray(1, n - 1)) : []
+      return {
+        cumulative: (t) => Math.min(raw(t), cap), puffs: [],
+        breakpoints: Number.isFinite(tCap) ? [...jumps.filter((t) => t < tCap), tCap] : jumps,
+        kinks: bends.filter((t) => t < tCap),
+        total: Math.min(cum[n - 1]!, cap),
+      }
     }
     case 'cylinder':
       return cylinderHistory(release, gas, horizon)

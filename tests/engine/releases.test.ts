@@ -101,4 +101,21 @@ describe('simple releases', () => {
     expect(lin.cumulative(10)).toBeCloseTo(0.01, 12)
     expect(lin.cumulative(5)).toBeCloseTo(0.0025, 12)
   })
+  it('schedule: the stepper lands where the rate jumps, and only bends at a linear schedule\'s inner points', () => {
+    const step = releaseHistory(ReleaseSchema.parse({ kind: 'schedule', points: [[0, 1e-3], [10, 2e-3], [20, 0]] }), N2, 100)
+    expect(step.breakpoints).toEqual([0, 10, 20])
+    expect(step.kinks).toEqual([])
+    const lin = releaseHistory(ReleaseSchema.parse({ kind: 'schedule', points: [[0, 0], [10, 2e-3], [30, 1e-3], [40, 0]], interpolation: 'linear' }), N2, 100)
+    expect(lin.breakpoints).toEqual([0, 40])
+    expect(lin.kinks).toEqual([10, 30])
+  })
+  it('schedule: the moment the inventory runs out is a breakpoint (the rate drops to zero there)', () => {
+    // Step schedule 1 L/s from 0 s, 2 L/s from 10 s: 25 L are gone at 10 + (25 − 10) / 2 = 17.5 s.
+    const h = releaseHistory(ReleaseSchema.parse({ kind: 'schedule', points: [[0, 1e-3], [10, 2e-3], [20, 0]], inventory_m3: 0.025 }), N2, 100)
+    expect(h.breakpoints).toHaveLength(3)
+    expect(h.breakpoints.slice(0, 2)).toEqual([0, 10])
+    expect(h.breakpoints[2]!).toBeCloseTo(17.5, 6)
+    expect(h.cumulative(17.5 + 1e-6)).toBeCloseTo(0.025, 12)
+    expect(h.cumulative(17.4)).toBeLessThan(0.025)
+  })
 })
