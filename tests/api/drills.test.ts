@@ -311,8 +311,9 @@ describe('a failed send is retried and not lost', () => {
     try {
       const mail = await waitForMail(rt.ctx.db, guest, /^Drill invitation/, 30_000)
       expect(icsOf(mail)).toMatchObject({ method: 'REQUEST', uid: `drill-${drill.id}@driftwarden` })
+      // The fake server has the message once DATA ends; the sender records "sent" after the server's reply.
+      await expect.poll(async () => (await rt.ctx.mail.outgoing(me.orgId)).find((m) => m.to === guest)?.status, { timeout: 10_000 }).toBe('sent')
       const sent = (await rt.ctx.mail.outgoing(me.orgId)).find((m) => m.to === guest)!
-      expect(sent.status).toBe('sent')
       expect(sent.attempts).toBeGreaterThan(1)
       await sleep(1500)
       expect(await listCapturedTo(rt.ctx.db, guest)).toHaveLength(1)

@@ -39,8 +39,8 @@ describe('SMTP server stopped', () => {
     const back = await startFakeSmtp(rt.ctx.db, port)
     try {
       await expect.poll(async () => (await listCapturedTo(rt.ctx.db, email)).length, { timeout: 20_000, interval: 250 }).toBe(1)
-      const sent = (await a.get('/api/admin/outgoing-mail').expect(200)).body.messages.find((m: { to: string }) => m.to === email)
-      expect(sent.status).toBe('sent')
+      // Captured once DATA ends; the sender records "sent" after the server's reply, a moment later.
+      await expect.poll(async () => (await a.get('/api/admin/outgoing-mail').expect(200)).body.messages.find((m: { to: string }) => m.to === email)?.status, { timeout: 10_000 }).toBe('sent')
       await sleep(1500)
       expect(await listCapturedTo(rt.ctx.db, email)).toHaveLength(1)
     } finally {
