@@ -416,7 +416,6 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   // sums with Θ = 1/2, plus the other half of ΔC in the cells where the sink is stiff (Θ = 1). Those
   // are cells with an exhaust or a floor outflow on top of the dilution, or every ventilated cell once
   // k_vent·dt > 1 (steps far above 3600/ACH).
-  // Only the floor outflow (bottom layer) and the exhausts add to the dilution sink.
   const stiffSet = new Set<number>()
   for (let pp = 0; pp < nPlan; pp++) if (m.floorOut[pp]! > 0) stiffSet.add(pp)
   for (let a = 0; a < m.exhaustCells.length; a++) stiffSet.add(m.exhaustCells[a]!)
