@@ -56,6 +56,17 @@ export const Room = z.object({
 export type Room = z.infer<typeof Room>
 
 export const OPENING_KINDS = ['door', 'pass_through'] as const
+
+/** Where an exit door leads: outdoors, a protected stair, or a protected (separately ventilated) corridor. */
+export const EXIT_KINDS = ['outdoors', 'stair', 'protected_corridor'] as const
+export const ExitKind = z.enum(EXIT_KINDS)
+export type ExitKind = z.infer<typeof ExitKind>
+export const EXIT_KIND_LABELS: Record<ExitKind, string> = {
+  outdoors: 'Exit to outdoors',
+  stair: 'Exit to a stair',
+  protected_corridor: 'Exit to a protected corridor',
+}
+
 export const Opening = z.object({
   id: ElementId,
   name: Label,
@@ -64,6 +75,8 @@ export const Opening = z.object({
   segment: z.tuple([PlanPoint, PlanPoint]),
   /** Open by default (a door held open, an open hatch), or closed. */
   open: z.boolean(),
+  /** Set on a door that is an exit of the floor (egress routes end there); absent or null: not an exit. */
+  exit: ExitKind.nullable().optional(),
 })
 export type Opening = z.infer<typeof Opening>
 
@@ -151,6 +164,14 @@ export const Underlay = z.object({
 })
 export type Underlay = z.infer<typeof Underlay>
 
+/** Where people gather after leaving (outside the drawn rooms as a rule); drawn on the plan and named in the plan's Evacuation section. */
+export const AssemblyPoint = z.object({
+  id: ElementId,
+  name: Label,
+  position: PlanPoint,
+})
+export type AssemblyPoint = z.infer<typeof AssemblyPoint>
+
 export const Plan = z.object({
   rooms: z.array(Room).max(500),
   openings: z.array(Opening).max(2000),
@@ -159,6 +180,8 @@ export const Plan = z.object({
   exhausts: z.array(Exhaust).max(1000),
   workstations: z.array(Workstation).max(2000),
   underlay: Underlay.nullable().default(null),
+  /** Optional so that plans saved before assembly points existed keep parsing unchanged. */
+  assemblyPoints: z.array(AssemblyPoint).max(50).optional(),
 })
 export type Plan = z.infer<typeof Plan>
 
