@@ -25,6 +25,7 @@ export const API = {
   runFields: (id: number) => `/api/runs/${id}/fields`,
   runSeries: (id: number) => `/api/runs/${id}/series`,
   runCancel: (id: number) => `/api/runs/${id}/cancel`,
+  runEgress: (id: number) => `/api/runs/${id}/egress`,
   floorSweeps: (floorId: number) => `/api/floors/${floorId}/sweeps`,
   sweep: (id: number) => `/api/sweeps/${id}`,
   floorAdvisor: (floorId: number) => `/api/floors/${floorId}/advisor`,

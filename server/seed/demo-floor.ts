@@ -33,6 +33,10 @@ export function demoFloorPlan(): Plan {
       { id: 'door-bay-3', name: 'Bay 3 airlock door', kind: 'door', segment: [[20, 5], [21.2, 5]], open: false },
       { id: 'pass-lab-bay', name: 'Wafer pass-through', kind: 'pass_through', segment: [[14, 2], [14, 2.6]], open: false },
       { id: 'door-write-up', name: 'W-212 door', kind: 'door', segment: [[3, 7.4], [4, 7.4]], open: true },
+      // Exits (closed doors on outside walls): a stair at each end of the corridor, and the write-up room's own door out.
+      { id: 'exit-west-stair', name: 'West stair door', kind: 'door', segment: [[0, 5.6], [0, 6.8]], open: false, exit: 'stair' },
+      { id: 'exit-east-stair', name: 'East stair door', kind: 'door', segment: [[24, 5.6], [24, 6.8]], open: false, exit: 'stair' },
+      { id: 'exit-write-up', name: 'W-212 outside door', kind: 'door', segment: [[6, 11], [7, 11]], open: false, exit: 'outdoors' },
     ],
     sources: [
       { id: 'nh3-cabinet', name: 'NH3 gas cabinet GC-1', kind: 'gas_cabinet', gasId: 'NH3', position: [1, 0.6], releaseHeightM: 1.2,
@@ -69,6 +73,7 @@ export function demoFloorPlan(): Plan {
       { id: 'ws-desk', name: 'Write-up desk', position: [4, 9.6], breathingHeightM: 1.1 },
     ],
     underlay: null,
+    assemblyPoints: [{ id: 'assembly-north', name: 'Assembly point: north car park', position: [6.5, 14] }],
   })
 }
 

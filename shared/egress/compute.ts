@@ -225,7 +225,8 @@ export function computeEgress(input: { runId: number; plan: Plan; summary: RunSu
     } else {
       // No safe route: say so, with when the routes closed. The lowest-dose route is reported for the record, marked unsafe.
       const least = [...walked].sort((a, b) => a.w.doseppmS - b.w.doseppmS)[0]!
-      const closing = walked.map((x) => ({ x, t: closingTime(x.c, v, field, times, limits, critical) }))
+      // The 20 shortest are scanned: enough to say when the way out closed without stalling on a large floor.
+      const closing = walked.slice(0, 20).map((x) => ({ x, t: closingTime(x.c, v, field, times, limits, critical) }))
       const open = closing.filter((c) => c.t !== null).sort((a, b) => b.t! - a.t!)
       const last = open[0]
       const lastText = last && last.t! > 0
