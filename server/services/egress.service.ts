@@ -23,6 +23,13 @@ export async function egressInput(ctx: ServiceContext, runId: number) {
   return { summary: summary.data, field: { meta: meta.data, frames } }
 }
 
+/** Default-assumption egress of a run for the plan rules; null when the run has no usable stored fields. */
+export async function egressOfRun(ctx: ServiceContext, runId: number, plan: Plan, summary: RunSummary): Promise<EgressResult | null> {
+  const input = await egressInput(ctx, runId)
+  if (!input) return null
+  return computeEgress({ runId, plan, summary, field: input.field })
+}
+
 /** Egress routes of one run over the floor as drawn now (exits may be marked after the run). */
 export async function getRunEgress(ctx: ServiceContext, actor: Actor, id: number, query: EgressQuery): Promise<EgressResult> {
   const run = await requireRun(ctx, actor, id)

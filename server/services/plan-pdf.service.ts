@@ -3,6 +3,7 @@ import type { Plan } from '../../shared/floorplan/plan-schema'
 import { floorPanelSvg, keyTimes, type FigureField } from '../../shared/plans/figure'
 import { doorLineLabel, formatEventTime, formatFrom, formatPpm, formatSeconds, ISOLATION_NONE, summaryForStatus } from '../../shared/plans/format'
 import { RULES } from '../../shared/plans/rule-list'
+import { timeLeftText } from '../../shared/plans/rules'
 import type { AckRecord, PlanContent, PlanLine } from '../../shared/schemas/plans'
 import { RunFieldsMeta, RunSummary } from '../../shared/schemas/runs'
 import { BRAND, cautionBox, renderPdf } from '../pdf/pdfmake'
@@ -79,7 +80,7 @@ export async function renderPlanPdf(p: PlanPdfInput): Promise<Buffer> {
   body.push(...notes(c.hazard.notes))
 
   body.push(h2('2. Predicted timeline'))
-  body.push({ text: `Predicted first alarm: ${formatEventTime(c.predicted.firstAlarmS, 'none')} · smallest time left for egress: ${formatSeconds(c.predicted.egressMarginS, 'no critical level')} · isolate within: ${formatSeconds(c.predicted.isolationByS, ISOLATION_NONE)} (after the alarm is heard)`, bold: true, margin: [0, 0, 0, 4] })
+  body.push({ text: `Predicted first alarm: ${formatEventTime(c.predicted.firstAlarmS, 'none')} · smallest time left for egress: ${timeLeftText(c.predicted.egressMarginS, c.predicted.firstAlarmS !== null)} · isolate within: ${formatSeconds(c.predicted.isolationByS, ISOLATION_NONE)} (after the alarm is heard)`, bold: true, margin: [0, 0, 0, 4] })
   body.push(table([60, '*', 120, 110], ['Time', 'Event', 'Where', 'From'], c.timeline.rows.map((r) => [
     r.kind === 'egress' ? `${formatSeconds(r.timeS, '–')} left` : formatEventTime(r.timeS, 'never'), r.event, r.where || '–', small(formatFrom(r.from)) as TableCell,
   ])))
@@ -100,7 +101,7 @@ export async function renderPlanPdf(p: PlanPdfInput): Promise<Buffer> {
   body.push({ text: [{ text: 'Assembly point: ', bold: true }, c.evacuation.assemblyPoint || 'not set yet – the officer must name it before publishing'], margin: [0, 0, 0, 4] })
   body.push(table([100, 80, '*', 110], ['Room', 'Leave', 'Doors', 'Why / from'], c.evacuation.rooms.map((r) => [
     r.roomName, LEVEL_TEXT[r.alarmLevel], r.doors.length ? r.doors.map((d) => `${doorLineLabel(d)}${d.note ? ` (${d.note})` : ''}`).join('\n') : '–',
-    { stack: [r.reason, small(formatFrom(r.from))] } as TableCell,
+    { stack: [r.reason, ...(r.route ? [{ text: r.route, margin: [0, 2, 0, 0] }] : []), ...(r.avoid ? [{ text: r.avoid, bold: true, color: '#b03a2e', margin: [0, 2, 0, 0] }] : []), small(formatFrom(r.from))] } as TableCell,
   ])))
   body.push(...notes(c.evacuation.notes))
 

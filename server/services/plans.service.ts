@@ -3,6 +3,7 @@ import { Plan } from '../../shared/floorplan/plan-schema'
 import { hashInput } from '../../shared/plans/canonical'
 import { refreshFromResults } from '../../shared/plans/refresh'
 import { generatePlan, type PlanRunInput } from '../../shared/plans/rules'
+import { egressOfRun } from './egress.service'
 import {
   type AckRecord, type NewPlan, PlanContent, type PlanDetail, type PlanListItem, type VersionSummary,
 } from '../../shared/schemas/plans'
@@ -120,6 +121,8 @@ async function planInputs(ctx: ServiceContext, actor: Actor, floorId: number, ru
   if (Object.keys(fields).length) throw new AppError(400, 'validation_failed', `Some fields are not valid: ${Object.keys(fields).join(', ')}`, fields)
   const planDoc = Plan.safeParse(floor.plan)
   if (!planDoc.success) throw new AppError(400, 'validation_failed', 'The floor plan cannot be read', { floorId: 'The floor plan is not valid' })
+  // Egress routes from each run's stored fields over the floor as drawn now (the Evacuation section and drill steps use them).
+  for (const run of runs) run.egress = await egressOfRun(ctx, run.id, planDoc.data, run.summary)
   return { floor, ids, runs, floorInput: { name: floor.name, siteName: floor.site_name, plan: planDoc.data } }
 }
 

@@ -1,5 +1,7 @@
 import type { Plan, Room } from '../floorplan/plan-schema'
+import { EXIT_KIND_LABELS } from '../floorplan/plan-schema'
 import { segmentOnPolygonEdge } from '../geometry/polygon'
+import type { EgressResult, EgressRoute } from '../schemas/egress'
 import type { ReceptorSummary, RunSummary } from '../schemas/runs'
 import { VENTILATION_STATE_LABELS } from '../schemas/runs'
 import type {
@@ -18,6 +20,8 @@ export interface PlanRunInput {
   id: number
   label: string
   summary: RunSummary
+  /** Computed egress routes of this run (shared/egress); absent when the run has no stored fields. */
+  egress?: EgressResult | null
 }
 
 export interface PlanFloorInput {
@@ -68,12 +72,25 @@ export function warningTimeS(summary: RunSummary): number | null {
   return summary.firstAlarm ? summary.firstAlarm.timeS + DETECTOR_LAG_S : null
 }
 
-/** R2e: seconds of egress left at a workstation = earliest critical level − alarm heard; null when no critical level or no alarm. */
+/**
+ * The one definition of "time left for egress": seconds from the alarm being heard to the earliest critical level
+ * (zero when the critical level comes first). Null means "not predicted": there is no critical level, or no
+ * detector alarm to count from (then nobody is warned, and a drill has no target to be measured against: never 0 s).
+ */
+export function timeLeftForEgressS(criticalS: number | null | undefined, alarmHeardS: number | null): number | null {
+  if (criticalS === null || criticalS === undefined || alarmHeardS === null) return null
+  return Math.max(0, criticalS - alarmHeardS)
+}
+
+/** How a time left for egress reads: "not predicted" (no alarm) is never shown as 0 s. */
+export function timeLeftText(s: number | null, hasAlarm: boolean, noCritical = 'no critical level'): string {
+  if (!hasAlarm) return 'not predicted (no detector alarm)'
+  return formatSeconds(s, noCritical)
+}
+
+/** R2e: seconds of egress left at a workstation (timeLeftForEgressS). */
 export function egressMarginS(summary: RunSummary, ws: ReceptorSummary): number | null {
-  const crit = criticalTimeAt(summary, ws).timeS
-  const warn = warningTimeS(summary)
-  if (crit === null || warn === null) return null
-  return Math.max(0, crit - warn)
+  return timeLeftForEgressS(criticalTimeAt(summary, ws).timeS, warningTimeS(summary))
 }
 
 /** R7b: the first time any workstation exceeds an exposure limit, measured from the alarm being heard. */
@@ -156,7 +173,7 @@ export function timelineRows(runs: PlanRunInput[]): TimelineRow[] {
       let event: string
       let t: number | null = null
       if (crit.timeS === null) event = 'Time left for egress: no critical level within the run'
-      else if (warn === null) event = `Time left for egress: none, ${CRITICAL_LABEL[crit.key!]} ${atEventTime(crit.timeS)} with no detector alarm before it`
+      else if (warn === null) event = `Time left for egress: not predicted, ${CRITICAL_LABEL[crit.key!]} ${atEventTime(crit.timeS)} with no detector alarm to warn people`
       else {
         t = Math.max(0, crit.timeS - warn)
         event = crit.timeS < warn
@@ -204,7 +221,31 @@ export function roomLevel(run: PlanRunInput, roomId: string): { level: AlarmLeve
   return { level: 'none', reason: 'No limit exceeded within the run: stay alert and follow the incident lead' }
 }
 
+/** Rooms that reach a critical level in any of the results, with the earliest time and the run. */
+function criticalRooms(runs: PlanRunInput[]): Map<string, { timeS: number; key: string; run: PlanRunInput }> {
+  const out = new Map<string, { timeS: number; key: string; run: PlanRunInput }>()
+  for (const run of runs) {
+    for (const r of run.summary.rooms) {
+      for (const key of CRITICAL_KEYS) {
+        const t = r.firstExceedS[key]
+        if (typeof t !== 'number') continue
+        const prev = out.get(r.id)
+        if (!prev || t < prev.timeS) out.set(r.id, { timeS: t, key, run })
+      }
+    }
+  }
+  return out
+}
+
+/** The computed route of a room (or of its workstations) in each result that has routes. */
+function routesOfRoom(runs: PlanRunInput[], roomId: string): { run: PlanRunInput; route: EgressRoute }[] {
+  return runs.flatMap((run) => (run.egress?.routes ?? []).filter((r) => r.fromRoomId === roomId).map((route) => ({ run, route })))
+}
+
 export function evacuationRooms(runs: PlanRunInput[], plan: Plan): EvacuationRoom[] {
+  const critical = criticalRooms(runs)
+  const openingName = (id: string) => plan.openings.find((o) => o.id === id)?.name || id
+  const roomNameOf = (id: string) => plan.rooms.find((r) => r.id === id)?.name || id
   const decided = new Map<string, { level: AlarmLevel; reason: string; run: PlanRunInput; name: string }>()
   for (const run of runs) {
     for (const r of run.summary.rooms) {
@@ -216,18 +257,49 @@ export function evacuationRooms(runs: PlanRunInput[], plan: Plan): EvacuationRoo
   const out: EvacuationRoom[] = []
   for (const [roomId, d] of decided) {
     const room = plan.rooms.find((r) => r.id === roomId)
-    const doors = room
-      ? doorsOfRoom(plan, room).map((door) => {
-          const other = door.leadsTo ? decided.get(door.leadsTo.id) : undefined
-          const note = !door.leadsTo
-            ? 'Leads outside the drawn rooms'
-            : other?.level === 'low'
-              ? `Leads into ${door.leadsTo.name}, also affected: keep moving through it to the next exit`
-              : `Leads into ${door.leadsTo.name}`
-          return { openingId: door.openingId, name: doorLabel(door.name, door.leadsTo?.name ?? null), note }
-        })
-      : []
+    const all = room ? doorsOfRoom(plan, room) : []
+    // Never list a door into a room that reaches a critical level in any result: it sends people towards the gas.
+    const intoCritical = all.filter((door) => door.leadsTo && critical.has(door.leadsTo.id))
+    const usable = all.filter((door) => !intoCritical.includes(door))
+    const routed = routesOfRoom(runs, roomId)
+    const safeFirstDoors = new Set(routed.filter((x) => x.route.safe && x.route.doorIds[0]).map((x) => x.route.doorIds[0]!))
+    const anyRoutes = routed.some((x) => x.route.exitOpeningId !== null)
+    // With computed routes the doors are the first doors of the safe routes; without, every door not into a critical room.
+    const listed = anyRoutes ? usable.filter((door) => safeFirstDoors.has(door.openingId)) : usable
+    const doors = listed.map((door) => {
+      const opening = plan.openings.find((o) => o.id === door.openingId)
+      const exitKind = opening?.exit ?? null
+      const note = exitKind
+        ? EXIT_KIND_LABELS[exitKind]
+        : !door.leadsTo
+          ? 'Leads outside the drawn rooms'
+          : `Leads into ${door.leadsTo.name}`
+      return { openingId: door.openingId, name: doorLabel(door.name, door.leadsTo?.name ?? null), note }
+    })
+    const avoid = intoCritical.length
+      ? `Do not use: ${intoCritical.map((door) => { const c = critical.get(door.leadsTo!.id)!; return `${door.name || door.openingId} (leads into ${door.leadsTo!.name}, ${CRITICAL_LABEL[c.key]} ${atEventTime(c.timeS)}, ${c.run.label})` }).join('; ')}`
+      : undefined
+    const routeLines: string[] = []
+    const roomRoutes = routed.filter((x) => x.route.fromWorkstationId === null)
+    for (const { run, route } of roomRoutes) {
+      if (route.exitOpeningId === null) { routeLines.push(`${run.label}: ${route.reason}`); continue }
+      const passesCritical = route.viaRoomIds.filter((id) => critical.has(id))
+      if (!route.safe) routeLines.push(`${run.label}: ${route.reason}`)
+      else {
+        routeLines.push(`${run.label}: by ${route.doorIds.map(openingName).join(' → ')}${route.viaRoomIds.length ? ` via ${route.viaRoomIds.map(roomNameOf).join(', ')}` : ''}, about ${formatSeconds(route.walkS)} on foot${passesCritical.length ? ` (passes ${passesCritical.map(roomNameOf).join(', ')} before it reaches a critical level: only when leaving on time)` : ''}.`)
+      }
+    }
+    const unsafeWs = routed.filter((x) => x.route.fromWorkstationId !== null && !x.route.safe && x.route.exitOpeningId !== null)
+    for (const { run, route } of unsafeWs) routeLines.push(`${run.label}, workstation ${route.fromWorkstationId}: ${route.reason}`)
+    if (!anyRoutes) {
+      routeLines.push(routed.length || runs.some((r) => r.egress)
+        ? 'No route to a marked exit: mark the exit doors (outdoors, stair, protected corridor) on the floor plan and refresh this plan.'
+        : 'Routes not computed for these results: mark the exit doors on the floor plan; the doors listed only avoid rooms that reach a critical level.')
+    } else if (!doors.length) {
+      routeLines.unshift('No safe route out of this room is predicted under these conditions: see below, and plan earlier warning, a refuge or rescue by protected responders.')
+    }
     out.push({ roomId, roomName: room?.name ?? d.name, alarmLevel: d.level, reason: `${d.reason} (${d.run.label})`, doors,
+      route: routeLines.join('\n').slice(0, 2000), ...(avoid ? { avoid: avoid.slice(0, 1000) } : {}),
       from: from(d.run, 'R3', 'room', roomId, room?.name ?? d.name) })
   }
   return out.sort((a, b) => LEVEL_ORDER[a.alarmLevel] - LEVEL_ORDER[b.alarmLevel] || a.roomName.localeCompare(b.roomName))
@@ -361,22 +433,30 @@ export function checklist(runs: PlanRunInput[], evac: EvacuationRoom[]): { steps
           const t = r?.firstExceedS[key]
           if (typeof t !== 'number') continue
           const warn = warningTimeS(run.summary)
-          const m = warn === null ? 0 : Math.max(0, t - warn)
-          if (margin === null || m < margin) { margin = m; roomSrc = { run, critS: t, key, warnS: warn } }
+          const m = timeLeftForEgressS(t, warn)
+          // No alarm: the time left is not predicted (never 0 s), but the room's critical level is still named in the basis.
+          if (!roomSrc || (m !== null && (margin === null || m < margin))) { margin = m ?? margin; roomSrc = { run, critS: t, key, warnS: warn } }
         }
       }
     }
     if (margin !== null) overallEgress = overallEgress === null ? margin : Math.min(overallEgress, margin)
-    const doors = room.doors.map((d) => d.name).join(', ') || 'the nearest exit'
-    const basis = src
+    const walk = routesOfRoom(runs, room.roomId).filter((x) => x.route.safe).map((x) => x.route.walkS)
+    const walkText = walk.length ? `; predicted walk by the computed route: ${formatSeconds(Math.max(...walk))}` : ''
+    const basis = (src
       ? `Time left for egress at ${src.ws.name} (${src.run.label})`
       : roomSrc
         ? `${CRITICAL_LABEL[roomSrc.key]} is reached in the room ${atEventTime(roomSrc.critS)}${roomSrc.warnS === null ? ' with no detector alarm' : roomSrc.critS <= roomSrc.warnS ? ', before the alarm is heard: no time is left' : `, ${formatSeconds(roomSrc.critS - roomSrc.warnS)} after the alarm is heard`} (${roomSrc.run.label})`
-        : 'No critical level in this room within the results'
+        : 'No critical level in this room within the results') + walkText
+    const when = `at the ${room.alarmLevel === 'low' ? 'first' : 'high'} alarm`
+    const what = room.doors.length
+      ? `Leave ${room.roomName} by ${room.doors.map((d) => d.name).join(', ')} ${when}, closing doors behind you`
+      : room.route && /No safe route/.test(room.route)
+        ? `Leave ${room.roomName} ${when}: no safe route is predicted under these conditions (see the Evacuation section); follow the incident lead`
+        : `Leave ${room.roomName} ${when} by a door that does not lead towards the gas, closing doors behind you`
     steps.push({ id: `ck-evac-${room.roomId}`, who: `Occupants of ${room.roomName}; floor warden`,
-      what: `Leave ${room.roomName} by ${doors} at the ${room.alarmLevel === 'low' ? 'first' : 'high'} alarm, closing doors behind you`,
+      what,
       targetS: margin,
-      basis,
+      basis: basis.slice(0, 500),
       measure: 'alarm_to_evacuated', from: src ? from(src.run, 'R7b', 'receptor', src.ws.id, src.ws.name) : roomSrc ? from(roomSrc.run, 'R7b', 'room', room.roomId, room.roomName) : room.from })
   }
 
@@ -413,7 +493,7 @@ export function generatePlan(floor: PlanFloorInput, runs: PlanRunInput[], title?
     summary: `Generated from ${runs.length} result${runs.length > 1 ? 's' : ''} (${runs.map((r) => `#${r.id} ${r.label}`).join('; ')}) for ${floor.siteName}, ${floor.name}.`,
     hazard: { items: hazardItems(runs, floor.plan), notes: '' },
     timeline: { rows: timelineRows(runs), notes: `Times are from the start of the release. The alarm is assumed heard ${DETECTOR_LAG_S} s after a detector crosses its set point.` },
-    evacuation: { rooms: evac, assemblyPoint: '', notes: '' },
+    evacuation: { rooms: evac, assemblyPoint: (floor.plan.assemblyPoints ?? []).map((a) => a.name || a.id).join('; ').slice(0, 500), notes: '' },
     actions: { items: immediateActions(runs, evac), notes: '' },
     protection: { ...prot, notes: '' },
     afterIncident: { items: afterIncident(runs), notes: '' },

@@ -72,6 +72,10 @@ export const EvacuationRoom = z.object({
   alarmLevel: AlarmLevel,
   reason: Text(500),
   doors: z.array(z.object({ openingId: Text(64), name: Text(200), note: Text(300).default('') })).max(50),
+  /** The computed way out (shared/egress) or why there is none; absent in plans made before routes were computed. */
+  route: Text(2000).optional(),
+  /** Doors not to use: they lead into a room that reaches a critical level in a result. */
+  avoid: Text(1000).optional(),
   from: DerivedFrom.nullable().default(null),
 })
 export type EvacuationRoom = z.infer<typeof EvacuationRoom>

@@ -58,9 +58,10 @@ describe('plan rules on the hand-computed case', () => {
     expect(byId.A!.doors.map((d) => d.name)).toEqual(['Door A'])
     expect(byId.A!.doors[0]!.note).toBe('Leads into Corridor C')
     expect(byId.B!.doors.map((d) => d.name)).toEqual(['Door B'])
-    expect(byId.C!.doors.map((d) => d.name)).toEqual(['Door A', 'Door B', 'East exit'])
-    expect(byId.C!.doors[0]!.note).toMatch(/also affected/)
-    expect(byId.C!.doors[2]!.note).toBe('Leads outside the drawn rooms')
+    // Door A leads into the gas room, which reaches IDLH: never listed as a way out, named as a door not to use.
+    expect(byId.C!.doors.map((d) => d.name)).toEqual(['Door B', 'East exit'])
+    expect(byId.C!.avoid).toMatch(/^Do not use: Door A \(leads into Gas room A, IDLH at 2 min/)
+    expect(byId.C!.doors[1]!.note).toBe('Leads outside the drawn rooms')
     expect(byId.A!.from).toMatchObject({ runId: 7, subjectKind: 'room', subjectId: 'A' })
   })
 
@@ -122,10 +123,10 @@ describe('plan rules on the hand-computed case', () => {
   it('drafts carry no review reminder in the stored summary; unnamed doors say where they lead', () => {
     expect(plan.summary).not.toMatch(/Review every section/)
     const f = fixtureFloor()
-    f.openings = f.openings.map((o) => (o.id === 'door-a' ? { ...o, name: '' } : o))
+    f.openings = f.openings.map((o) => (o.id === 'door-a' || o.id === 'door-b' ? { ...o, name: '' } : o))
     const p = generatePlan({ ...floor, plan: f }, [run])
     expect(p.evacuation.rooms.find((r) => r.roomId === 'A')!.doors[0]!.name).toBe('Door to Corridor C')
-    expect(p.evacuation.rooms.find((r) => r.roomId === 'C')!.doors[0]!.name).toBe('Door to Gas room A')
+    expect(p.evacuation.rooms.find((r) => r.roomId === 'C')!.doors[0]!.name).toBe('Door to Lab B')
   })
 
   it('a room crossing IDLH within the first step says so, and drives its evacuation target without a workstation', () => {
