@@ -30,6 +30,11 @@ export type ProblemCode =
   | 'above_ceiling'
   | 'alarm_order'
   | 'no_sources'
+  /** A room holding a gas source has no detector for that gas. */
+  | 'source_room_no_detector'
+  /** No door is marked as an exit, or a room has no chain of doors to one. */
+  | 'no_exit'
+  | 'room_no_exit_path'
   /** The engine's scenario schema refused the exported file. */
   | 'engine_input'
 
@@ -190,7 +195,47 @@ export function checkPlan(plan: Plan, ctx: CheckContext): PlanProblem[] {
   checkOpenings(plan, out)
   checkPlacement(plan, ctx, out)
   checkGases(plan, ctx, out)
+  checkDetectionAndExits(plan, out)
   return out
+}
+
+/**
+ * Warnings that matter for the response plan: a source room with no detector for its gas (nobody is warned, so no
+ * egress time can be predicted), and rooms with no way to a marked exit (no route can be computed).
+ */
+function checkDetectionAndExits(plan: Plan, out: PlanProblem[]): void {
+  plan.sources.forEach((src, i) => {
+    const room = roomAt(plan, src.position)
+    if (!room) return
+    const covered = plan.detectors.some((d) => d.gasId === src.gasId && roomAt(plan, d.position)?.id === room.id)
+    if (!covered) {
+      out.push({ code: 'source_room_no_detector', severity: 'warning', path: `sources.${i}.position`, elementIds: [src.id, room.id],
+        message: `${label('Room', room)} holds ${label('source', src)} but no ${src.gasId} detector: without one no alarm is predicted and nobody is warned. Place one, or let the detector advisor propose positions from a run.` })
+    }
+  })
+  if (!plan.rooms.length) return
+  const doors = plan.openings.filter((o) => o.kind === 'door')
+  const exits = doors.filter((o) => o.exit)
+  if (!exits.length) {
+    out.push({ code: 'no_exit', severity: 'warning', path: 'openings', elementIds: [],
+      message: 'No door is marked as an exit (to outdoors, a stair or a protected corridor): egress routes cannot be computed' })
+    return
+  }
+  // Rooms reaching an exit: start from the rooms carrying an exit door and spread through the doors.
+  const roomsOf = new Map(doors.map((d) => [d.id, roomsOfOpening(plan, d.segment).map((r) => r.id)]))
+  const reach = new Set(exits.flatMap((e) => roomsOf.get(e.id) ?? []))
+  for (let changed = true; changed;) {
+    changed = false
+    for (const ids of roomsOf.values()) {
+      if (ids.some((id) => reach.has(id)) && ids.some((id) => !reach.has(id))) { ids.forEach((id) => reach.add(id)); changed = true }
+    }
+  }
+  plan.rooms.forEach((room, i) => {
+    if (!reach.has(room.id)) {
+      out.push({ code: 'room_no_exit_path', severity: 'warning', path: `rooms.${i}`, elementIds: [room.id],
+        message: `${label('Room', room)} has no path through doors to a marked exit` })
+    }
+  })
 }
 
 /** True when no problem is an error. */

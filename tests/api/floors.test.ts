@@ -34,8 +34,10 @@ async function newFloor(over: Record<string, unknown> = {}) {
 
 function validPlan() {
   return { ...emptyPlan(), rooms: [rectRoom('a', 0, 0, 6, 4), rectRoom('b', 6, 0, 12, 4)],
-    openings: [{ id: 'd1', name: 'D1', kind: 'door', segment: [[6, 1], [6, 2]], open: true }],
-    sources: [source('s1', 1, 1)] }
+    openings: [{ id: 'd1', name: 'D1', kind: 'door', segment: [[6, 1], [6, 2]], open: true },
+      { id: 'x1', name: 'Stair door', kind: 'door', segment: [[12, 1], [12, 2]], open: false, exit: 'stair' }],
+    sources: [source('s1', 1, 1)],
+    detectors: [{ id: 'det1', name: 'NH3 detector', gasId: 'NH3', position: [2, 2], mountingHeightM: 2.5, alarmLowPpm: 12.5, alarmHighPpm: 35 }] }
 }
 
 describe('POST /api/sites/:id/floors', () => {

@@ -19,9 +19,32 @@ describe('plan schema', () => {
 
 describe('checkPlan', () => {
   it('finds nothing wrong with rooms that share a wall and a door on that wall', () => {
-    const problems = checkPlan(twoRoomPlan(), ctx)
+    const plan = twoRoomPlan()
+    // Without a detector in the source room or a marked exit, only the two egress warnings are raised.
+    expect(checkPlan(plan, ctx).map((p) => [p.code, p.severity])).toEqual([['source_room_no_detector', 'warning'], ['no_exit', 'warning']])
+    plan.detectors = [{ id: 'det-1', name: 'NH3 detector', gasId: 'NH3', position: [2, 2], mountingHeightM: 2.5, alarmLowPpm: 12.5, alarmHighPpm: 35 }]
+    plan.openings.push({ id: 'exit-1', name: 'Stair', kind: 'door', segment: [[20, 0.4], [20, 1.6]], open: false, exit: 'stair' })
+    const problems = checkPlan(plan, ctx)
     expect(problems).toEqual([])
     expect(isPlanValid(problems)).toBe(true)
+  })
+
+  it('a source room without a detector for its gas is a problem that points to the detector advisor', () => {
+    const p = checkPlan(twoRoomPlan(), ctx).find((x) => x.code === 'source_room_no_detector')!
+    expect(p.elementIds).toEqual(['leak-1', 'gas-room'])
+    expect(p.message).toMatch(/detector advisor/)
+    // A detector for another gas does not count.
+    const plan = twoRoomPlan()
+    plan.detectors = [{ id: 'det-1', name: 'Cl2 detector', gasId: 'Cl2', position: [2, 2], mountingHeightM: 0.5, alarmLowPpm: 0.25, alarmHighPpm: 0.5 }]
+    expect(checkPlan(plan, ctx).some((x) => x.code === 'source_room_no_detector')).toBe(true)
+  })
+
+  it('warns about a room with no door path to a marked exit', () => {
+    const plan = twoRoomPlan()
+    plan.rooms.push(rectRoom('store', 0, 4, 6, 8))
+    plan.openings.push({ id: 'exit-1', name: 'Stair', kind: 'door', segment: [[20, 0.4], [20, 1.6]], open: false, exit: 'stair' })
+    const p = checkPlan(plan, ctx).filter((x) => x.code === 'room_no_exit_path')
+    expect(p.map((x) => x.elementIds)).toEqual([['store']])
   })
 
   describe('overlap', () => {
@@ -136,7 +159,7 @@ describe('checkPlan', () => {
     expect(isPlanValid(problems)).toBe(false)
     const noSources = twoRoomPlan()
     noSources.sources = []
-    expect(checkPlan(noSources, ctx).map((p) => [p.code, p.severity])).toEqual([['no_sources', 'error']])
+    expect(checkPlan(noSources, ctx).map((p) => [p.code, p.severity])).toEqual([['no_sources', 'error'], ['no_exit', 'warning']])
     expect(isPlanValid(checkPlan(noSources, ctx))).toBe(false)
   })
 })
