@@ -5,9 +5,10 @@ import type { FloorTables } from './tables/floors'
 import type { RunTables } from './tables/runs'
 import type { PlanTables } from './tables/plans'
 import type { DrillTables } from './tables/drills'
+import type { StalenessTables } from './tables/staleness'
 
 /** The whole database as Kysely sees it; each feature's tables live in ./tables. */
-export interface Database extends FloorTables, RunTables, PlanTables, DrillTables {
+export interface Database extends FloorTables, RunTables, PlanTables, DrillTables, StalenessTables {
   organizations: OrganizationsTable
   users: UsersTable
   auth_tokens: AuthTokensTable

@@ -13,6 +13,7 @@ import {
 import { ScenarioError, SimulationCancelled } from '../../shared/engine/errors'
 import { runSimulationInWorker } from '../engine-thread/run-in-worker'
 import type { JobQueue } from './queue'
+import { stampResult } from '../services/staleness.service'
 
 /** The pg-boss queue of engine runs. Job data: { runId }. */
 /** Wraps what the engine thread rejected with, to tell it apart from database trouble after the run. */
@@ -103,6 +104,7 @@ export async function startRunWorkers(db: Db, jobs: JobQueue, opts: RunWorkerOpt
         const still = await lockHeldRun(trx, runId, holder)
         if (!still) return
         await insertResultOnce(trx, { runId, summary: stored.summary, meta: stored.meta, series: stored.series, frames: buf(stored.frames), fronts: buf(stored.fronts), peak: buf(stored.peak) })
+        await stampResult(trx, runId, built.gasId) // engine and gas library versions (issue 17)
         await finishRun(trx, runId, holder, 'succeeded', null)
       })
       log(`run ${runId} stored (${(result.stats.wall_s).toFixed(1)} s engine)`)

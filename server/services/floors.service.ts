@@ -10,6 +10,7 @@ import type { Db } from '../db/database'
 import { AppError, conflict, notFound } from '../http/errors'
 import type { Actor } from '../http/session-user'
 import { appendAudit } from '../repositories/audit.repo'
+import { floorChanged } from './staleness.service'
 import {
   deleteFloor, findFloorInOrg, floorIdsOfUser, insertFloor, listFloorMembers, listFloors, replaceFloorMembers,
   savePlanIfVersion, updateFloorMeta, usersInOrg,
@@ -110,6 +111,7 @@ export async function changeFloor(ctx: ServiceContext, actor: Actor, id: number,
     await appendAudit(trx, { orgId: actor.orgId, actorId: actor.id, action: 'floor.changed', targetType: 'floor', targetId: id,
       detail: { fields: Object.keys(patch) } })
   })
+  if (patch.ceilingHeightM !== undefined) await floorChanged(ctx, actor, id, { plan: row.plan, ceilingM: row.ceiling_height_m }, { plan: row.plan, ceilingM: patch.ceilingHeightM }, row.version)
   return getFloor(ctx, actor, id)
 }
 
@@ -131,6 +133,7 @@ export async function savePlan(ctx: ServiceContext, actor: Actor, id: number, ve
     const current = await findFloorInOrg(ctx.db, actor.orgId, id)
     throw conflict(`Someone saved this floor in the meantime (now version ${current?.version ?? '?'}, yours was ${version})`, 'stale_version')
   }
+  await floorChanged(ctx, actor, id, { plan: row.plan, ceilingM: row.ceiling_height_m }, { plan, ceilingM: row.ceiling_height_m }, saved.version)
   return { version: saved.version, updatedAt: new Date(saved.updated_at).toISOString(), ...checked }
 }
 

@@ -21,6 +21,7 @@ import {
 import type { ServiceContext } from './context'
 import { canManageFloors, requireVisibleFloor } from './floors.service'
 import { renderPlanPdf } from './plan-pdf.service'
+import { differenceSincePublished, planUpdateOf, recordBasis, settleReasons, stalenessOf, stalenessOfPlan } from './staleness.service'
 
 type PlanRow = NonNullable<Awaited<ReturnType<typeof findPlanInOrg>>>
 type VersionRow = NonNullable<Awaited<ReturnType<typeof findVersion>>>
@@ -56,6 +57,7 @@ export async function listPlans(ctx: ServiceContext, actor: Actor): Promise<{ pl
     listVersions(ctx.db, ids), listAcks(ctx.db, ids), managersOfFloors(ctx.db, plans.flatMap((p) => (p.floor_id ? [p.floor_id] : []))),
   ])
   const now = new Date()
+  const stale = await stalenessOf(ctx.db, actor.orgId, ids)
   const out: PlanListItem[] = []
   for (const p of plans) {
     const vs = versions.filter((v) => v.plan_id === p.id)
@@ -77,7 +79,7 @@ export async function listPlans(ctx: ServiceContext, actor: Actor): Promise<{ pl
     out.push({
       id: p.id, title, floorId: p.floor_id, floorName: p.floor_name, siteName: p.site_name, latestVersion: vs[0]?.version ?? 0,
       latestPublished: published?.version ?? null, hasDraft: !!draft, publishedAt: iso(published?.published_at), ackDueAt: iso(published?.ack_due_at),
-      acks: counts, mine,
+      acks: counts, mine, staleness: stale.get(p.id) ?? null,
     })
   }
   return { plans: out }
@@ -174,6 +176,8 @@ export async function getPlan(ctx: ServiceContext, actor: Actor, id: number): Pr
     acknowledgments: acks.map(ackRecord),
     canEdit: editor,
     canAcknowledge: actor.role === 'lab_manager' && !!published && !!me && me.state !== 'done',
+    staleness: await stalenessOfPlan(ctx.db, actor.orgId, id),
+    update: editor ? await planUpdateOf(ctx.db, actor.orgId, id) : null,
   }
 }
 
@@ -211,6 +215,7 @@ export async function refreshPlan(ctx: ServiceContext, actor: Actor, id: number,
     const { content, rebuilt, kept } = refreshFromResults(PlanContent.parse(base.content), fresh)
     const version = await writeDraft(trx, actor, id, draft, content)
     await updatePlanRuns(trx, id, ids)
+    await settleReasons(trx, actor, id, ids)
     await appendAudit(trx, { orgId: actor.orgId, actorId: actor.id, action: 'plan.refreshed', targetType: 'plan', targetId: id, detail: { version, runIds: ids, rebuilt, kept } })
   })
   return getPlan(ctx, actor, id)
@@ -234,6 +239,8 @@ export async function publishPlan(ctx: ServiceContext, actor: Actor, id: number,
     if (!draft) throw conflict('There is no draft to publish: edit the plan first', 'no_draft')
     const content = PlanContent.parse(draft.content)
     const hash = contentHash(id, draft.version, plan.floor_id, content)
+    await recordBasis(trx, draft.id, plan.floor_id, plan.run_ids)
+    const difference = await differenceSincePublished(trx, actor.orgId, id, plan.run_ids)
     const published = await publishDraft(trx, draft.id, { hash, userId: actor.id, ackDueDays })
     if (!published) throw conflict('Someone published this draft in the meantime', 'stale_version')
     const managers = await managersOfFloors(trx, plan.floor_id ? [plan.floor_id] : [])
@@ -244,6 +251,7 @@ export async function publishPlan(ctx: ServiceContext, actor: Actor, id: number,
         greeting: `Hello ${m.name},`,
         paragraphs: [
           `${actor.name} published version ${draft.version} of the response plan "${content.title}" for ${plan.site_name}, ${plan.floor_name}. As a lab manager of this floor, please read it and acknowledge it by ${new Date(published.ack_due_at!).toISOString().slice(0, 10)}.`,
+          ...difference,
           `Version fingerprint (sha256): ${hash}`,
           'The plan is a screening-based planning aid. It does not replace the site emergency action plan, local codes or the authority having jurisdiction.',
         ],

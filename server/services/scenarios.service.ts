@@ -11,6 +11,7 @@ import { latestRunsOfScenarios } from '../repositories/runs.repo'
 import { deleteScenario, findScenarioByName, findScenarioInOrg, insertScenario, listScenariosOfFloor, updateScenario } from '../repositories/scenarios.repo'
 import type { ServiceContext } from './context'
 import { requireVisibleFloor } from './floors.service'
+import { scenarioChanged, scenarioRemoved } from './staleness.service'
 
 type Row = NonNullable<Awaited<ReturnType<typeof findScenarioInOrg>>>
 
@@ -73,16 +74,18 @@ export async function createScenario(ctx: ServiceContext, actor: Actor, floorId:
 }
 
 export async function changeScenario(ctx: ServiceContext, actor: Actor, id: number, config: ScenarioConfig) {
-  const { floor } = await requireScenario(ctx, actor, id)
+  const { floor, row: before } = await requireScenario(ctx, actor, id)
   checkRunnable(floor, config)
   await refuseDuplicateName(ctx, floor.id, config.name, id)
   const row = await updateScenario(ctx.db, actor.orgId, id, { name: config.name, config })
   await appendAudit(ctx.db, { orgId: actor.orgId, actorId: actor.id, action: 'scenario.changed', targetType: 'scenario', targetId: id })
+  await scenarioChanged(ctx, actor, id, before.config, config)
   return toRecord(row!, (await latestRunsOfScenarios(ctx.db, [id]))[0])
 }
 
 export async function removeScenario(ctx: ServiceContext, actor: Actor, id: number) {
-  await requireScenario(ctx, actor, id)
+  const { row } = await requireScenario(ctx, actor, id)
+  await scenarioRemoved(ctx, actor, id, row.name)
   await deleteScenario(ctx.db, actor.orgId, id)
   await appendAudit(ctx.db, { orgId: actor.orgId, actorId: actor.id, action: 'scenario.deleted', targetType: 'scenario', targetId: id })
 }

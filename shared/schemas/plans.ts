@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { PlanStaleness, PlanUpdateState } from './staleness'
 
 /**
  * Response plans: the document an officer generates from scenario results, edits, publishes as a frozen
@@ -182,6 +183,10 @@ export const PlanDetail = z.object({
   canEdit: z.boolean(),
   /** True when the caller is a lab manager of the floor who has not acknowledged the latest published version. */
   canAcknowledge: z.boolean(),
+  /** Why the plan is out of date with its floor, scenarios, gas library or engine; null when up to date. */
+  staleness: PlanStaleness,
+  /** The latest "bring up to date" request (re-runs, refresh, publish), if any. */
+  update: PlanUpdateState,
 })
 export type PlanDetail = z.infer<typeof PlanDetail>
 
@@ -199,6 +204,7 @@ export const PlanListItem = z.object({
   acks: z.object({ done: z.number().int(), pending: z.number().int(), overdue: z.number().int() }),
   /** The caller's own state as a lab manager of the floor (null for others). */
   mine: z.enum(['done', 'pending', 'overdue']).nullable(),
+  staleness: PlanStaleness,
 })
 export type PlanListItem = z.infer<typeof PlanListItem>
 export const PlanList = z.object({ plans: z.array(PlanListItem) })

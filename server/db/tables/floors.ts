@@ -9,6 +9,8 @@ export interface SitesTable {
   org_id: number
   name: string
   address: Generated<string>
+  /** Days after which a plan's acknowledgments are due again even without a change. */
+  review_interval_days: Generated<number>
   created_at: Generated<Date>
   updated_at: Timestamp
 }

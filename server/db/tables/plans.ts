@@ -25,6 +25,8 @@ export interface PlanVersionsTable {
   /** shared/schemas/plans.ts PlanContent */
   content: Json<unknown>
   content_hash: string | null
+  /** The versions this plan version was built on (shared/schemas/staleness.ts PlanBasis), or null before recording. */
+  basis: ColumnType<unknown, string | null | undefined, string | null>
   ack_due_at: NullableStamp
   published_at: NullableStamp
   published_by: number | null

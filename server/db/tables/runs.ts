@@ -12,6 +12,8 @@ export interface ScenariosTable {
   name: string
   /** shared/schemas/runs.ts ScenarioConfig */
   config: Json<unknown>
+  /** Bumped by each edit (shared by the staleness check). */
+  version: Generated<number>
   created_by: number | null
   created_at: Generated<Date>
   updated_at: Stamp
@@ -62,6 +64,12 @@ export interface RunResultsTable {
   fronts: Buffer
   peak: Buffer
   byte_size: number
+  /** What the result was computed with (migrations/2026120203_staleness.ts). */
+  engine_version: Generated<number>
+  gas_library_version: Generated<number>
+  gas_id: string | null
+  gas_entry_hash: string | null
+  scenario_version: number | null
   created_at: Generated<Date>
 }
 
