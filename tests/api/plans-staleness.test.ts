@@ -174,7 +174,7 @@ describe('acknowledging again', () => {
     await officer.post(`/api/plans/${id}/publish`).send({}).expect(409)
     await new Promise((r) => setTimeout(r, 500))
     const asks = await rt.ctx.db.selectFrom('outgoing_mail').select(['ref', 'to_address']).where('kind', '=', 'plan_ack_request').where('ref', 'like', `plan:${id}:%`).orderBy('id').execute()
-    expect(asks.map((a) => a.ref.replace(/:user:\d+$/, '')).sort()).toEqual([`plan:${id}:v1`, `plan:${id}:v1`, `plan:${id}:v2`, `plan:${id}:v2`])
+    expect(asks.map((a) => (a.ref ?? "").replace(/:user:\d+$/, '')).sort()).toEqual([`plan:${id}:v1`, `plan:${id}:v1`, `plan:${id}:v2`, `plan:${id}:v2`])
     const captured = await rt.ctx.db.selectFrom('captured_mail').select('subject').where(sql<boolean>`${fx.manager2.email} = any(envelope_to)`)
       .where('subject', 'like', 'Please acknowledge: Re-acknowledged plan%').execute()
     expect(captured.map((c) => c.subject).sort()).toEqual(['Please acknowledge: Re-acknowledged plan (version 1)', 'Please acknowledge: Re-acknowledged plan (version 2)'])
