@@ -17,6 +17,7 @@ import { sitesRoutes } from './routes/sites.routes'
 import { systemRoutes } from './routes/system.routes'
 import { usersRoutes } from './routes/users.routes'
 import { plansRoutes } from './routes/plans.routes'
+import { stalenessRoutes } from './routes/staleness.routes'
 import { drillsRoutes } from './routes/drills.routes'
 import type { ServiceContext } from './services/context'
 
@@ -31,6 +32,7 @@ const FEATURES: ((api: ApiRoutes, ctx: ServiceContext) => void)[] = [
   runsRoutes,
   plansRoutes,
   drillsRoutes,
+  stalenessRoutes,
 ]
 
 export interface AppOptions {

@@ -1,6 +1,8 @@
 import { startRunWorkers } from './jobs/runs-worker'
 import type { Runtime } from './runtime'
 import { startDrillReminders } from './services/drill-notices.service'
+import { startPlanUpdates } from './services/plan-updates.service'
+import { sweepCodeVersions } from './services/staleness.service'
 
 /** Background services that run beside HTTP in the server process (job workers, schedulers). */
 export const BACKGROUND: ((rt: Runtime) => Promise<void>)[] = []
@@ -14,6 +16,11 @@ BACKGROUND.push(async (rt) => {
 
 // Drill reminders (issue 7): a pg-boss tick every minute sends the reminders that are due.
 BACKGROUND.push(startDrillReminders)
+
+// Stale plans (issue 17): a new engine or gas library arrives with a deployment, so look once at start-up;
+// "bring up to date" requests are finished by their own queue.
+BACKGROUND.push(async (rt) => { await sweepCodeVersions(rt.ctx.db).catch((e) => console.warn('[staleness]', (e as Error).message)) })
+BACKGROUND.push(startPlanUpdates)
 
 export async function startBackground(rt: Runtime) {
   for (const start of BACKGROUND) await start(rt)

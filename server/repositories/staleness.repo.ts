@@ -100,9 +100,13 @@ export const finishPlanUpdate = (db: Db, id: number, status: 'refreshed' | 'publ
   db.updateTable('plan_updates').set({ status, message, changes: JSON.stringify(changes), finished_at: sql`now()` })
     .where('id', '=', id).where('status', '=', 'waiting').returning(['id']).executeTakeFirst()
 
-/** Locks a waiting update for the transaction that finishes it; skipped when another worker holds it. */
-export const lockWaitingUpdate = (db: Db, id: number) =>
-  db.selectFrom('plan_updates').selectAll().where('id', '=', id).where('status', '=', 'waiting').forUpdate().skipLocked().executeTakeFirst()
+/** The update if it is still waiting (the queue's singleton policy lets one tick at a time get here). */
+export const findWaitingUpdate = (db: Db, id: number) =>
+  db.selectFrom('plan_updates').selectAll().where('id', '=', id).where('status', '=', 'waiting').executeTakeFirst()
+
+export const setSiteReviewInterval = (db: Db, orgId: number, siteId: number, days: number) =>
+  db.updateTable('sites').set({ review_interval_days: days }).where('id', '=', siteId).where('org_id', '=', orgId)
+    .returning(['id', 'review_interval_days']).executeTakeFirst()
 
 export const runStates = (db: Db, ids: number[]) =>
   ids.length ? db.selectFrom('runs').select(['id', 'status', 'message', 'label']).where('id', 'in', ids).execute() : Promise.resolve([])

@@ -6,10 +6,12 @@ import { compareTimesToLimits, describeFloorChanges, describeScenarioChanges, jo
 import { RunSummary, ScenarioConfig } from '../../shared/schemas/runs'
 import { PlanBasis, type PlanStaleness, type PlanUpdateState } from '../../shared/schemas/staleness'
 import type { Db } from '../db/database'
+import { notFound } from '../http/errors'
 import type { Actor } from '../http/session-user'
+import { appendAudit } from '../repositories/audit.repo'
 import {
   bumpScenarioVersion, clearReasons, latestPlanUpdate, floorVersion, insertStaleReasons, openReasons, plansOfFloor, plansOfScenario, plansWithResultVersions,
-  publishedBases, reasonsSettledSince, resultVersions, runStartTimes, setDraftBasis, stampResultVersions,
+  publishedBases, reasonsSettledSince, setSiteReviewInterval, resultVersions, runStartTimes, setDraftBasis, stampResultVersions,
 } from '../repositories/staleness.repo'
 import type { ServiceContext } from './context'
 
@@ -184,4 +186,12 @@ export async function planUpdateOf(db: Db, orgId: number, planId: number): Promi
     id: u.id, status: u.status, runIds: u.run_ids, message: u.message, changes: Array.isArray(u.changes) ? u.changes : [],
     createdAt: new Date(u.created_at).toISOString(), finishedAt: u.finished_at ? new Date(u.finished_at).toISOString() : null,
   }
+}
+
+/** A site's review interval (days) for the weekly digest; another organization's site is a 404. */
+export async function setReviewInterval(ctx: ServiceContext, actor: Actor, siteId: number, days: number) {
+  const row = await setSiteReviewInterval(ctx.db, actor.orgId, siteId, days)
+  if (!row) throw notFound('Site')
+  await appendAudit(ctx.db, { orgId: actor.orgId, actorId: actor.id, action: 'site.review_interval', targetType: 'site', targetId: siteId, detail: { days } })
+  return { siteId, days: row.review_interval_days }
 }

@@ -180,3 +180,68 @@ describe('acknowledging again', () => {
     expect(captured.map((c) => c.subject).sort()).toEqual(['Please acknowledge: Re-acknowledged plan (version 1)', 'Please acknowledge: Re-acknowledged plan (version 2)'])
   })
 })
+
+describe('bringing a plan up to date', () => {
+  it('one action re-runs the scenarios on the floor as it is now, refreshes the draft, shows old against new times, publishes and asks again', async () => {
+    const fx = await planFixture(rt)
+    const s1 = (await officer.post(`/api/floors/${fx.floorId}/scenarios`).send(scenarioBody('Cylinder for update', { durationS: 120 })).expect(201)).body.id
+    const first = await officer.post(`/api/scenarios/${s1}/runs`).expect(202)
+    await waitForRun(officer, first.body.id, (r) => r.status === 'succeeded', 120_000)
+    const id = await newPlan(fx.floorId, [first.body.id], 'Plan brought up to date')
+    await officer.post(`/api/plans/${id}/publish`).send({}).expect(200)
+
+    // Nothing can be re-run for a plan built on results without a scenario.
+    const bare = await newPlan(fx.floorId, [fx.runId], 'No scenario')
+    expect((await officer.post(`/api/plans/${bare}/bring-up-to-date`).send({}).expect(409)).body.error.code).toBe('nothing_to_rerun')
+    expect((await officer.post(`/api/plans/${id}/bring-up-to-date`).send({ ackDueDays: 0 }).expect(400)).body.error.fields).toHaveProperty('ackDueDays')
+    const manager = await signIn(rt, acct('lab_manager').email, acct('lab_manager').password)
+    await manager.post(`/api/plans/${id}/bring-up-to-date`).send({}).expect(403)
+
+    // The gas room loses most of its extract.
+    const plan = fixtureFloor()
+    plan.rooms[0]!.ventilation = { mode: 'ach', airChangesPerHour: 1 }
+    await officer.put(`/api/floors/${fx.floorId}/plan`).send({ version: 1, plan }).expect(200)
+    expect(await staleOf(id)).not.toBeNull()
+
+    const asked = await officer.post(`/api/plans/${id}/bring-up-to-date`).send({ publish: true, ackDueDays: 7 }).expect(202)
+    expect(asked.body).toMatchObject({ status: 'waiting', runIds: [expect.any(Number)] })
+    await officer.post(`/api/plans/${id}/bring-up-to-date`).send({}).expect(409)
+    const rerunId = asked.body.runIds[0] as number
+    expect(rerunId).not.toBe(first.body.id)
+    await waitForRun(officer, rerunId, (r) => r.status === 'succeeded', 120_000)
+    const t0 = Date.now()
+    let update = asked.body
+    while (update.status === 'waiting' && Date.now() - t0 < 30_000) {
+      await new Promise((r) => setTimeout(r, 300))
+      update = (await officer.get(`/api/plans/${id}/update`).expect(200)).body
+    }
+    expect(update.status).toBe('published')
+    const detail = (await officer.get(`/api/plans/${id}`).expect(200)).body
+    expect(detail).toMatchObject({ latestPublished: 2, runIds: [rerunId], staleness: null, update: { status: 'published' } })
+    // The re-run used the floor as drawn now (version 2) and the published basis says so.
+    const basis = (await rt.ctx.db.selectFrom('plan_versions').select('basis').where('plan_id', '=', id).where('version', '=', 2).executeTakeFirstOrThrow()).basis
+    expect(basis).toMatchObject({ floorVersion: 2, runs: [{ runId: rerunId, floorVersion: 2, scenarioId: s1, scenarioVersion: 1, engineVersion: ENGINE_VERSION }] })
+
+    // What changed in the numbers: old against new, read here straight from the two stored summaries.
+    const sums = await rt.ctx.db.selectFrom('run_results').select(['run_id', 'summary']).where('run_id', 'in', [first.body.id, rerunId]).execute()
+    type Sum = { limits: { key: string; label: string }[]; rooms: { name: string; firstExceedS: Record<string, number | null> }[] }
+    const sumOf = (runId: number) => sums.find((s) => s.run_id === runId)!.summary as Sum
+    const expected: string[] = []
+    for (const room of sumOf(rerunId).rooms) {
+      const old = sumOf(first.body.id).rooms.find((r) => r.name === room.name)!
+      for (const [k, t] of Object.entries(room.firstExceedS)) {
+        const was = old.firstExceedS[k] ?? null
+        if (was === t) continue
+        const label = sumOf(rerunId).limits.find((l) => l.key === k)!.label
+        expected.push(`room ${room.name}: ${label}: ${was === null ? 'not reached' : `${Math.round(was)} s`} → ${t === null ? 'not reached' : `${Math.round(t)} s`}`)
+      }
+    }
+    expect(expected.length).toBeGreaterThan(0)
+    for (const e of expected) expect(update.changes.some((c: string) => c.startsWith(e))).toBe(true)
+
+    const mail = await waitForMail(rt.ctx.db, fx.manager2.email, /Please acknowledge: Plan brought up to date \(version 2\)/)
+    expect(mail.text_body).toContain("Why there is a new version: room Gas room A's air changes changed from 10 to 1")
+    const asks = await rt.ctx.db.selectFrom('outgoing_mail').select('ref').where('kind', '=', 'plan_ack_request').where('ref', 'like', `plan:${id}:v2:%`).execute()
+    expect(asks).toHaveLength(2)
+  }, 240_000)
+})
