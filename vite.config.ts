@@ -35,6 +35,8 @@ export default defineConfig({
           fileParallelism: false,
           testTimeout: 180_000,
           hookTimeout: 120_000,
+          // A page under a loaded CI machine can take seconds to settle; the 1 s default made waits flaky.
+          expect: { poll: { timeout: 15_000, interval: 100 } },
         },
       },
     ],

@@ -1,23 +1,39 @@
 #!/usr/bin/env bash
-# The whole suite: starts its own PostgreSQL, builds the client for the browser tests, runs every vitest project,
-# and ends with one line "N passed, N failed" for CI.
+# The whole suite: installs what a fresh Debian machine lacks (PostgreSQL, Chromium, poppler-utils), type-checks,
+# builds the client for the browser tests, runs every vitest project, stops the cluster it started, and ends with one
+# line "N passed, N failed" for CI.
 set -uo pipefail
 cd "$(dirname "$0")/.."
 bash server/cli/pg.sh ensure-installed || exit 1
+bash tests/support/ensure-browser-tools.sh || exit 1
+
+# Leave the machine as we found it: a cluster this run started is stopped at the end; one already running stays.
+cluster_was_running=0
+bash server/cli/pg.sh status >/dev/null 2>&1 && cluster_was_running=1
+stop_cluster() {
+  if [ "$cluster_was_running" = 0 ] && [ -z "${DATABASE_URL:-}" ]; then bash server/cli/pg.sh stop >/dev/null 2>&1 || true; fi
+}
+trap stop_cluster EXIT
+
+echo "[test] type-checking (vue-tsc)"
+typecheck_failed=0
+npx vue-tsc --noEmit -p tsconfig.json || { typecheck_failed=1; echo "[test] type errors above count as one failure"; }
 echo "[test] building the client"
 npx vite build --logLevel warn || exit 1
 mkdir -p tests/artifacts
 npx vitest run --reporter=default --reporter=json --outputFile=.vitest-results.json "$@"
 status=$?
+[ "$typecheck_failed" = 1 ] && status=1
 # A non-zero exit with no failed test means an error outside any test (e.g. an uncaught exception):
 # count it as one failure so the closing line never reads clean when the run was not.
-VITEST_STATUS=$status node -e '
+VITEST_STATUS=$status TYPECHECK_FAILED=$typecheck_failed node -e '
 const fs = require("fs")
 try {
   const r = JSON.parse(fs.readFileSync(".vitest-results.json", "utf8"))
-  const outside = process.env.VITEST_STATUS !== "0" && r.numFailedTests === 0 ? 1 : 0
+  const typecheck = process.env.TYPECHECK_FAILED === "1" ? 1 : 0
+  const outside = process.env.VITEST_STATUS !== "0" && r.numFailedTests === 0 && !typecheck ? 1 : 0
   if (outside) console.log("[test] vitest failed outside any test (unhandled error above)")
-  console.log(`${r.numPassedTests} passed, ${r.numFailedTests + outside} failed`)
+  console.log(`${r.numPassedTests} passed, ${r.numFailedTests + outside + typecheck} failed`)
 } catch { console.log("0 passed, 1 failed"); process.exitCode = 1 }
 '
 exit $status

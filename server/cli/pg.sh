@@ -4,12 +4,17 @@
 #   pg.sh start [dbname]     init (first time) + start; prints the DATABASE_URL as the last line
 #   pg.sh stop               fast shutdown
 #   pg.sh status
-# Listens on 127.0.0.1 only, port $DW_PG_PORT (default 54329). Data lives in .pg/ (git-ignored) or $DW_PG_DIR.
+#   pg.sh where              print data=, run= (socket dir) and port= lines; tests read paths from here
+# Listens on 127.0.0.1 only, port $DW_PG_PORT (default: 54400 + a hash of the checkout path mod 1000, so two checkouts
+# on one machine never share a port). Data lives in .pg/ (git-ignored) or $DW_PG_DIR; when the postgres user cannot
+# enter that folder (a 0700 mktemp clone) it moves to /tmp/dw-pg-<hash>, and the socket dir moves to /tmp when its
+# path has a space or is too long for a Unix socket.
 # trust auth and fsync=off are for dev/test only; point DATABASE_URL at a real server for real data.
 set -euo pipefail
 
 ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)"
-PORT="${DW_PG_PORT:-54329}"
+path_hash() { echo -n "$1" | sha1sum | cut -c1-10; }
+PORT="${DW_PG_PORT:-$((54400 + 16#$(path_hash "$ROOT" | cut -c1-6) % 1000))}"
 BIN="${PG_BIN:-/usr/lib/postgresql/15/bin}"
 BASE="${DW_PG_DIR:-$ROOT/.pg}"
 
@@ -32,11 +37,11 @@ pick_dirs() {
   DATA="$BASE/data"; RUN="$BASE/run"
   mkdir -p "$BASE"
   if ! runuser -u postgres -- test -x "$BASE" 2>/dev/null || ! runuser -u postgres -- test -x "$ROOT" 2>/dev/null; then
-    local h; h=$(echo -n "$BASE" | sha1sum | cut -c1-10)
-    BASE="/tmp/dw-pg-$h"; DATA="$BASE/data"; RUN="$BASE/run"
+    BASE="/tmp/dw-pg-$(path_hash "$BASE")"; DATA="$BASE/data"; RUN="$BASE/run"
     mkdir -p "$BASE"
   fi
-  if [ ${#RUN} -gt 80 ]; then RUN="/tmp/dw-pg-run-$(echo -n "$BASE" | sha1sum | cut -c1-10)"; fi
+  # pg_ctl -o splits on spaces, and a Unix socket path has a limit of about 100 bytes.
+  if [ ${#RUN} -gt 80 ] || [[ "$RUN" == *" "* ]]; then RUN="/tmp/dw-pg-run-$(path_hash "$BASE")"; fi
   mkdir -p "$RUN"; chown postgres:postgres "$BASE" "$RUN"; chmod 700 "$BASE"
 }
 
@@ -44,6 +49,20 @@ as_pg() { if [ "$(id -u)" = 0 ]; then runuser -u postgres -- "$@"; else "$@"; fi
 
 ensure_user() {
   id postgres >/dev/null 2>&1 || useradd --system --home-dir /var/lib/postgresql --shell /bin/bash postgres
+}
+
+# A server already running on this data dir keeps its port (e.g. started before the default port changed):
+# use it rather than treating its postmaster.pid as stale.
+adopt_running_port() {
+  local pidfile="$DATA/postmaster.pid" pid p
+  [ -f "$pidfile" ] || return 0
+  pid=$(head -n1 "$pidfile"); p=$(sed -n 4p "$pidfile")
+  [ -n "$pid" ] && [ -n "$p" ] && [ "$p" != "$PORT" ] && [ -r "/proc/$pid/cmdline" ] || return 0
+  tr '\0' ' ' < "/proc/$pid/cmdline" | grep -q -- "$DATA" || return 0
+  if "$BIN/pg_isready" -q -h "$RUN" -p "$p" -U postgres; then
+    say "this checkout's cluster is already running on port $p (not $PORT); using it. 'bash server/cli/pg.sh stop' stops it."
+    PORT="$p"
+  fi
 }
 
 is_ours_running() {
@@ -74,7 +93,7 @@ port_taken() { (exec 3<>"/dev/tcp/127.0.0.1/$PORT") 2>/dev/null; }
 
 start() {
   local dbname="${1:-driftwarden}"
-  ensure_installed; ensure_user; pick_dirs
+  ensure_installed; ensure_user; pick_dirs; adopt_running_port
   if [ ! -f "$DATA/PG_VERSION" ]; then
     say "initialising a new cluster in $DATA"
     mkdir -p "$DATA"; chown postgres:postgres "$DATA"
@@ -97,16 +116,19 @@ start() {
 }
 
 stop() {
-  pick_dirs
+  pick_dirs; adopt_running_port
   if is_ours_running; then as_pg "$BIN/pg_ctl" -D "$DATA" -m fast -w -s stop; fi
 }
 
-status() { pick_dirs; if is_ours_running; then echo "running on 127.0.0.1:$PORT ($DATA)"; else echo "stopped"; exit 1; fi; }
+where() { pick_dirs; adopt_running_port; printf 'data=%s\nrun=%s\nport=%s\n' "$DATA" "$RUN" "$PORT"; }
+
+status() { pick_dirs; adopt_running_port; if is_ours_running; then echo "running on 127.0.0.1:$PORT ($DATA)"; else echo "stopped"; exit 1; fi; }
 
 case "${1:-}" in
   ensure-installed) [ -n "${DATABASE_URL:-}" ] || ensure_installed ;;
   start) shift; start "$@" ;;
   stop) stop ;;
   status) status ;;
-  *) echo "usage: pg.sh ensure-installed|start [db]|stop|status" >&2; exit 2 ;;
+  where) where ;;
+  *) echo "usage: pg.sh ensure-installed|start [db]|stop|status|where" >&2; exit 2 ;;
 esac
