@@ -8,7 +8,7 @@ import { ScenarioConfig } from '../../shared/schemas/runs'
 import type { Db } from '../db/database'
 import { findFloorInOrg } from '../repositories/floors.repo'
 import {
-  claimRun, findRunById, findStaleRuns, finishRun, hasResult, heartbeatRun, insertResultOnce, lockHeldRun, releaseLostRun, replaceRunJob, setRunJob,
+  adoptRunForResult, claimRun, findRunById, findStaleRuns, finishRun, hasResult, heartbeatRun, insertResultOnce, lockHeldRun, releaseLostRun, replaceRunJob, setRunJob,
 } from '../repositories/runs.repo'
 import { ScenarioError, SimulationCancelled } from '../../shared/engine/errors'
 import { runSimulationInWorker } from '../engine-thread/run-in-worker'
@@ -49,6 +49,8 @@ export interface RunWorkerOptions {
   staleAfterS?: number
   /** Name in logs. */
   name?: string
+  /** How long a finished result is kept in memory and its store retried while the database is unreachable, s. @default 900 */
+  storeRetryS?: number
 }
 
 export interface RunWorkers {
@@ -62,6 +64,7 @@ export async function startRunWorkers(db: Db, jobs: JobQueue, opts: RunWorkerOpt
   await ensureRunsQueue(jobs)
   const heartbeatMs = opts.heartbeatMs ?? 500
   const staleAfterS = opts.staleAfterS ?? Number(process.env.RUN_STALE_S ?? 20)
+  const storeRetryS = opts.storeRetryS ?? 900
   const holderPrefix = `${hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`
   const log = (msg: string) => { if (process.env.RUN_WORKER_LOG !== '0') console.log(`[runs ${opts.name ?? holderPrefix}] ${msg}`) }
   const active = new Set<Promise<unknown>>()
@@ -99,14 +102,27 @@ export async function startRunWorkers(db: Db, jobs: JobQueue, opts: RunWorkerOpt
       clearInterval(beat)
       const stored = summarizeRun(result, plan.data, config.data, built.scenario, built.notes)
       const buf = (a: Float32Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength)
-      await db.transaction().execute(async (trx) => {
-        // Only the holder may store and finish; the primary key on run_id makes the insert happen once.
-        const still = await lockHeldRun(trx, runId, holder)
-        if (!still) return
-        await insertResultOnce(trx, { runId, summary: stored.summary, meta: stored.meta, series: stored.series, frames: buf(stored.frames), fronts: buf(stored.fronts), peak: buf(stored.peak) })
-        await stampResult(trx, runId, built.gasId) // engine and gas library versions (issue 17)
-        await finishRun(trx, runId, holder, 'succeeded', null)
-      })
+      // The result is kept and its store retried until the database answers again (issue 14): a run that
+      // finishes during an outage is not computed twice, nor lost.
+      const t0 = Date.now()
+      for (let attempt = 1; ; attempt++) {
+        try {
+          await db.transaction().execute(async (trx) => {
+            // Only the holder may store and finish; the primary key on run_id makes the insert happen once. A holder
+            // declared lost during the outage takes its run back while it is still running.
+            const still = (await lockHeldRun(trx, runId, holder)) ?? (attempt > 1 ? await adoptRunForResult(trx, runId, holder) : undefined)
+            if (!still) return
+            await insertResultOnce(trx, { runId, summary: stored.summary, meta: stored.meta, series: stored.series, frames: buf(stored.frames), fronts: buf(stored.fronts), peak: buf(stored.peak) })
+            await stampResult(trx, runId, built.gasId) // engine and gas library versions (issue 17)
+            await finishRun(trx, runId, holder, 'succeeded', null)
+          })
+          break
+        } catch (e) {
+          if (Date.now() - t0 > storeRetryS * 1000 || stopping) throw e
+          if (attempt === 1) log(`run ${runId}: result not stored yet (${(e as Error).message}); retrying`)
+          await new Promise((r) => setTimeout(r, Math.min(5000, 250 * 2 ** Math.min(attempt, 5))))
+        }
+      }
       log(`run ${runId} stored (${(result.stats.wall_s).toFixed(1)} s engine)`)
       return { ok: true }
     } catch (e) {

@@ -149,3 +149,13 @@ export const replaceRunJob = (db: Db, id: number, jobId: string) => db.updateTab
 /** Locks the run row for the holder's final write; undefined when the holder lost it. */
 export const lockHeldRun = (db: Db, id: number, holder: string) =>
   db.selectFrom('runs').select('id').where('id', '=', id).where('holder', '=', holder).where('status', '=', 'running').forUpdate().executeTakeFirst()
+
+/**
+ * A finished result that could not be stored at once (database down) may arrive after the reaper handed the run
+ * to another attempt: the late holder takes the run back, since the result is the same computation. Only while
+ * the run is still running; undefined when it ended meanwhile.
+ */
+export const adoptRunForResult = (db: Db, id: number, holder: string) =>
+  db.updateTable('runs').set({ holder, heartbeat_at: sql`now()` })
+    .where('id', '=', id).where('status', '=', 'running')
+    .returning('id').executeTakeFirst()
