@@ -1,5 +1,7 @@
 import type { Content, TableCell } from 'pdfmake/interfaces'
 import type { Plan } from '../../shared/floorplan/plan-schema'
+import { doseLines, startName, verdictText, wayOutText } from '../../shared/egress/describe'
+import { egressFigureSvg } from '../../shared/egress/figure'
 import { floorPanelSvg, keyTimes, type FigureField } from '../../shared/plans/figure'
 import { doorLineLabel, formatEventTime, formatFrom, formatPpm, formatSeconds, ISOLATION_NONE, summaryForStatus } from '../../shared/plans/format'
 import { RULES } from '../../shared/plans/rule-list'
@@ -9,6 +11,7 @@ import { RunFieldsMeta, RunSummary } from '../../shared/schemas/runs'
 import { BRAND, cautionBox, renderPdf } from '../pdf/pdfmake'
 import { runFronts } from '../repositories/plans.repo'
 import type { ServiceContext } from './context'
+import { egressOfRun } from './egress.service'
 
 export interface PlanPdfInput {
   ctx: ServiceContext
@@ -58,6 +61,36 @@ async function figureInputs(ctx: ServiceContext, orgId: number, runIds: number[]
   })
 }
 
+/**
+ * The ways out drawn over the floor as it is now, per result (the first two, like the fronts figure), with each
+ * route's verdict, way and dose in a table below: the same picture and words as the results page.
+ */
+async function egressFigures(p: PlanPdfInput, plan: Plan): Promise<Content[]> {
+  const out: Content[] = []
+  const rows = await runFronts(p.ctx.db, p.orgId, p.runIds.slice(0, 2))
+  for (const id of p.runIds.slice(0, 2)) {
+    const row = rows.find((r) => r.run_id === id)
+    const summary = row ? RunSummary.safeParse(row.summary) : null
+    if (!summary?.success) continue
+    const eg = await egressOfRun(p.ctx, id, plan, summary.data)
+    if (!eg) continue
+    out.push({ ...(h2(`Figure: ways out, run #${id}`) as object), pageBreak: 'before' } as Content)
+    out.push({ text: `${eg.startBasis}. ${eg.speedBasis}.`, fontSize: 8, margin: [0, 0, 0, 4] })
+    out.push({ svg: egressFigureSvg({ plan, egress: eg, width: 500 }), width: 500, margin: [0, 0, 0, 6] } as Content)
+    const unsafe = eg.routes.filter((r) => !r.safe)
+    if (unsafe.length) {
+      out.push({ text: `No safe route under these conditions from ${unsafe.map((r) => startName(plan, r)).join(', ')}: do not send people that way; plan earlier warning, a refuge or rescue by protected responders.`, bold: true, color: '#b03a2e', margin: [0, 0, 0, 4] })
+    }
+    out.push(table([95, 85, '*', 150], ['From', 'Verdict', 'Way out', 'Dose along the way'], eg.routes.map((r) => [
+      startName(plan, r), { text: verdictText(r), bold: true, color: r.safe ? '#0a7d55' : '#b03a2e' } as TableCell,
+      { stack: [wayOutText(plan, r), small(r.reason)] } as TableCell, { stack: doseLines(eg, r).map((d) => small(d)) } as TableCell,
+    ])))
+    for (const n of eg.notes) out.push(small(n))
+    out.push(small(eg.caution))
+  }
+  return out
+}
+
 export async function renderPlanPdf(p: PlanPdfInput): Promise<Buffer> {
   const c = p.content
   const body: Content[] = []
@@ -104,6 +137,7 @@ export async function renderPlanPdf(p: PlanPdfInput): Promise<Buffer> {
     { stack: [r.reason, ...(r.route ? [{ text: r.route, margin: [0, 2, 0, 0] }] : []), ...(r.avoid ? [{ text: r.avoid, bold: true, color: '#b03a2e', margin: [0, 2, 0, 0] }] : []), small(formatFrom(r.from))] } as TableCell,
   ])))
   body.push(...notes(c.evacuation.notes))
+  if (p.floorPlan) body.push(...(await egressFigures(p, p.floorPlan)))
 
   body.push(h2('4. Immediate actions'))
   body.push(lines(c.actions.items))

@@ -216,7 +216,7 @@ export function computeEgress(input: { runId: number; plan: Plan; summary: RunSu
       const best = safe[0]!
       const closes = closingTime(best.c, v, field, times.filter((t) => t >= startS), limits, critical)
       const shorter = walked.filter((x) => x.c.lengthM < best.c.lengthM - 1e-6 && !isSafe(x.w))
-      const parts = [`Leave ${st.label} by ${best.c.doorIds.map(doorName).join(' → ')}${via(best.c)}: ${formatSeconds(best.w.walkS)} on foot, dose ${best.w.doseppmS.toPrecision(3)} ppm·s, peak ${best.w.peakPpm.toPrecision(3)} ppm.`]
+      const parts = [`Leave ${st.label} by ${best.c.doorIds.map(doorName).join(', then ')}${via(best.c)}: ${formatSeconds(best.w.walkS)} on foot, dose ${best.w.doseppmS.toPrecision(3)} ppm·s, peak ${best.w.peakPpm.toPrecision(3)} ppm.`]
       if (shorter.length) parts.push(`A shorter route${via(shorter[0]!.c)} crosses ${critical?.label ?? 'the critical limit'} (${shorter[0]!.w.criticalRoomIds.map(roomName).join(', ') || 'on the way'}) and is not used.`)
       if (!clearAllRun(best.c)) parts.push(`It passes ${best.c.roomIds.slice(1).filter(everCritical).map(roomName).join(', ')}, which later reaches ${critical!.label}: usable only when leaving on time.`)
       if (closes !== null) parts.push(`Leaving at ${formatSeconds(closes)} or later this route is no longer safe.`)
@@ -230,7 +230,7 @@ export function computeEgress(input: { runId: number; plan: Plan; summary: RunSu
       const open = closing.filter((c) => c.t !== null).sort((a, b) => b.t! - a.t!)
       const last = open[0]
       const lastText = last && last.t! > 0
-        ? ` The last route to close (${last.x.c.doorIds.map(doorName).join(' → ')}${via(last.x.c)}) closed for people leaving at ${formatSeconds(last.t!)}; earlier routes closed from ${formatSeconds(Math.min(...open.map((c) => c.t!)))}.`
+        ? ` The last route to close (${last.x.c.doorIds.map(doorName).join(', then ')}${via(last.x.c)}) closed for people leaving at ${formatSeconds(last.t!)}; earlier routes closed from ${formatSeconds(Math.min(...open.map((c) => c.t!)))}.`
         : ' No route was open even for people leaving at the start of the release.'
       routes.push(toRoute(least, false,
         `No safe route from ${st.label} under these conditions: leaving at ${formatSeconds(startS)}, every route to an exit crosses ${critical?.label ?? 'the critical limit'}.${lastText} Plan for earlier warning (a detector in this room, see the detector advisor), a refuge or rescue by protected responders; do not send people this way.`,
@@ -242,7 +242,10 @@ export function computeEgress(input: { runId: number; plan: Plan; summary: RunSu
     criticalLimit: critical ? { key: critical.key, label: critical.label, ppm: critical.ppm } : null,
     exitIds,
     assemblyPoints: (plan.assemblyPoints ?? []).map((a) => ({ id: a.id, name: a.name, position: [a.position[0], a.position[1]] as [number, number] })),
-    routes, notes,
+    routes,
+    limits: limits.map((l) => ({ key: l.key, label: l.label, ppm: l.ppm })),
+    roomsReachingCriticalIds: critical ? plan.rooms.filter((r) => field.roomPeak(r.id) >= critical.ppm).map((r) => r.id) : [],
+    notes,
     caution: `Planning advice for drills, not live guidance during an incident. ${SCREENING_CAUTION.summary}`,
   }
 }

@@ -286,7 +286,7 @@ export function evacuationRooms(runs: PlanRunInput[], plan: Plan): EvacuationRoo
       const passesCritical = route.viaRoomIds.filter((id) => critical.has(id))
       if (!route.safe) routeLines.push(`${run.label}: ${route.reason}`)
       else {
-        routeLines.push(`${run.label}: by ${route.doorIds.map(openingName).join(' → ')}${route.viaRoomIds.length ? ` via ${route.viaRoomIds.map(roomNameOf).join(', ')}` : ''}, about ${formatSeconds(route.walkS)} on foot${passesCritical.length ? ` (passes ${passesCritical.map(roomNameOf).join(', ')} before it reaches a critical level: only when leaving on time)` : ''}.`)
+        routeLines.push(`${run.label}: by ${route.doorIds.map(openingName).join(', then ')}${route.viaRoomIds.length ? ` via ${route.viaRoomIds.map(roomNameOf).join(', ')}` : ''}, about ${formatSeconds(route.walkS)} on foot${passesCritical.length ? ` (passes ${passesCritical.map(roomNameOf).join(', ')} before it reaches a critical level: only when leaving on time)` : ''}.`)
       }
     }
     const unsafeWs = routed.filter((x) => x.route.fromWorkstationId !== null && !x.route.safe && x.route.exitOpeningId !== null)

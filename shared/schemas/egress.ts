@@ -59,6 +59,10 @@ export const EgressResult = z.object({
   exitIds: z.array(z.string()),
   assemblyPoints: z.array(z.object({ id: z.string(), name: z.string(), position: z.tuple([z.number(), z.number()]) })),
   routes: z.array(EgressRoute),
+  /** The run's exposure and critical limits (set points left out), for comparing the dose along a route. */
+  limits: z.array(z.object({ key: z.string(), label: z.string(), ppm: z.number() })).optional(),
+  /** Rooms that reach the critical limit at some time in the run (drawn as rooms to keep out of). */
+  roomsReachingCriticalIds: z.array(z.string()).optional(),
   notes: z.array(z.string()),
   caution: z.string(),
 })

@@ -46,7 +46,7 @@ describe('plan Evacuation section and drill steps from the computed routes', () 
     const c = expectNoDoorIntoCriticalRoom(plan, runs)
     const a = c.evacuation.rooms.find((r) => r.roomId === 'A')!
     expect(a.doors.map((d) => d.openingId)).toEqual(['d-ac'])
-    expect(a.route).toMatch(/by A–C door → Stair door via Corridor C, about 25 s on foot/)
+    expect(a.route).toMatch(/by A–C door, then Stair door via Corridor C, about 25 s on foot/)
     expect(a.avoid).toMatch(/Do not use: A–S door \(leads into Gas room S, IDLH/)
     expect(c.evacuation.assemblyPoint).toBe('Car park')
     const step = c.checklist.find((s) => s.id === 'ck-evac-A')!
