@@ -10,6 +10,7 @@ import type { Db } from '../db/database'
 import { AppError, conflict, notFound } from '../http/errors'
 import type { Actor } from '../http/session-user'
 import { appendAudit } from '../repositories/audit.repo'
+import { checkPlanSafely } from '../jobs/plan-checks-thread'
 import { floorChanged } from './staleness.service'
 import {
   deleteFloor, findFloorInOrg, floorIdsOfUser, insertFloor, listFloorMembers, listFloors, replaceFloorMembers,
@@ -25,6 +26,12 @@ export function canManageFloors(actor: Pick<Actor, 'role'>): boolean {
 
 function check(plan: Plan, ceilingM: number): { problems: PlanProblem[]; planValid: boolean } {
   const problems = checkPlan(plan, { knownGasIds: LIBRARY_GAS_IDS, ceilingM })
+  return { problems, planValid: isPlanValid(problems) }
+}
+
+/** The same checks for plans that may be big: off the request thread (issue 14). */
+async function checkLarge(plan: Plan, ceilingM: number): Promise<{ problems: PlanProblem[]; planValid: boolean }> {
+  const problems = await checkPlanSafely(plan, ceilingM)
   return { problems, planValid: isPlanValid(problems) }
 }
 
@@ -103,8 +110,8 @@ export async function createFloor(ctx: ServiceContext, actor: Actor, siteId: num
 export async function changeFloor(ctx: ServiceContext, actor: Actor, id: number, patch: FloorUpdate): Promise<FloorDetail> {
   const row = await requireVisibleFloor(ctx.db, actor, id)
   await checkPeople(ctx.db, actor, patch.managerIds, patch.memberIds)
+  const rechecked = patch.ceilingHeightM !== undefined ? await checkLarge(Plan.parse(row.plan), patch.ceilingHeightM) : {}
   await ctx.db.transaction().execute(async (trx) => {
-    const rechecked = patch.ceilingHeightM !== undefined ? check(Plan.parse(row.plan), patch.ceilingHeightM) : {}
     await updateFloorMeta(trx, actor.orgId, id, { name: patch.name, ceilingHeightM: patch.ceilingHeightM, ...rechecked })
     if (patch.managerIds) await replaceFloorMembers(trx, id, 'manager', patch.managerIds)
     if (patch.memberIds) await replaceFloorMembers(trx, id, 'member', patch.memberIds)
@@ -127,7 +134,7 @@ export async function removeFloor(ctx: ServiceContext, actor: Actor, id: number)
  */
 export async function savePlan(ctx: ServiceContext, actor: Actor, id: number, version: number, plan: Plan): Promise<SavePlanResult> {
   const row = await requireVisibleFloor(ctx.db, actor, id)
-  const checked = check(plan, row.ceiling_height_m)
+  const checked = await checkLarge(plan, row.ceiling_height_m)
   const saved = await savePlanIfVersion(ctx.db, actor.orgId, id, version, { plan, ...checked, userId: actor.id })
   if (!saved) {
     const current = await findFloorInOrg(ctx.db, actor.orgId, id)

@@ -1,4 +1,5 @@
 import {
+  boundingBox,
   findSelfIntersection,
   pointInPolygon,
   pointOnPolygonEdge,
@@ -6,10 +7,14 @@ import {
   segmentOnPolygonEdge,
   type Point,
 } from '../geometry/polygon'
+import { mayOverlap } from './overlap-prefilter'
 import type { Plan, PlanCollection, Room } from './plan-schema'
 
 /** Geometric tolerance of the checks, metres: walls closer than 5 mm count as touching. */
 export const CHECK_TOLERANCE_M = 0.005
+
+/** Overlapping room pairs listed at most; the plan is invalid from the first, and the rest follow once those are fixed. */
+export const MAX_OVERLAPS_LISTED = 25
 
 /** Shortest opening the engine resolves meaningfully, metres. */
 export const MIN_OPENING_M = 0.05
@@ -108,13 +113,19 @@ function checkRooms(plan: Plan, out: PlanProblem[]): void {
     })
     return false
   })
-  for (let i = 0; i < plan.rooms.length; i++) {
+  // Room bounding boxes once; the pre-test and a cap on listed overlaps keep adversarial plans cheap (issue 14).
+  const boxes = plan.rooms.map((r) => boundingBox(r.polygon))
+  let overlaps = 0
+  pairs: for (let i = 0; i < plan.rooms.length; i++) {
     for (let j = i + 1; j < plan.rooms.length; j++) {
       if (!simple[i] || !simple[j]) continue
+      const [ax0, ay0, ax1, ay1] = boxes[i]!, [bx0, by0, bx1, by1] = boxes[j]!
+      if (ax1 <= bx0 + CHECK_TOLERANCE_M || bx1 <= ax0 + CHECK_TOLERANCE_M || ay1 <= by0 + CHECK_TOLERANCE_M || by1 <= ay0 + CHECK_TOLERANCE_M) continue
       const a = plan.rooms[i]!, b = plan.rooms[j]!
-      if (polygonsOverlap(a.polygon, b.polygon, CHECK_TOLERANCE_M)) {
+      if (mayOverlap(a.polygon, b.polygon, CHECK_TOLERANCE_M) && polygonsOverlap(a.polygon, b.polygon, CHECK_TOLERANCE_M)) {
         out.push({ code: 'room_overlap', severity: 'error', path: `rooms.${j}.polygon`, elementIds: [a.id, b.id],
           message: `${label('Room', a)} and ${label('room', b)} overlap` })
+        if (++overlaps >= MAX_OVERLAPS_LISTED) break pairs
       }
     }
   }

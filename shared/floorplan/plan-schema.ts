@@ -12,8 +12,11 @@ const finite = z.number().finite()
 const nonNegative = finite.min(0, 'Cannot be negative')
 const positive = finite.positive('Must be more than zero')
 
+/** Plan coordinates stay within this distance of the origin, metres (issue 14: a room at 1e300 m was saved). */
+export const PLAN_COORD_LIMIT_M = 5000
+const coord = finite.min(-PLAN_COORD_LIMIT_M, `Within ${PLAN_COORD_LIMIT_M} m of the plan origin`).max(PLAN_COORD_LIMIT_M, `Within ${PLAN_COORD_LIMIT_M} m of the plan origin`)
 /** A plan point [x, y] in metres. */
-export const PlanPoint = z.tuple([finite, finite])
+export const PlanPoint = z.tuple([coord, coord])
 export type PlanPoint = z.infer<typeof PlanPoint>
 
 export const ElementId = z.string().trim().min(1, 'Required').max(64, 'At most 64 characters')

@@ -90,10 +90,25 @@ export const FloorDetail = FloorSummary.extend({
 })
 export type FloorDetail = z.infer<typeof FloorDetail>
 
+/** Corners of all rooms of one plan together, and the largest side of the plan's extent (issue 14: bounded work per save). */
+export const MAX_PLAN_CORNERS = 5000
+export const MAX_PLAN_EXTENT_M = 2000
+
+/** A plan as saved: per-element bounds from the plan schema, plus totals a building can have. */
+export const SavablePlan = Plan.superRefine((plan, ctx) => {
+  const corners = plan.rooms.reduce((n, r) => n + r.polygon.length, 0)
+  if (corners > MAX_PLAN_CORNERS) ctx.addIssue({ code: 'custom', path: ['rooms'], message: `At most ${MAX_PLAN_CORNERS} room corners in all (this plan has ${corners})` })
+  let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity
+  for (const r of plan.rooms) for (const [x, y] of r.polygon) { x0 = Math.min(x0, x); x1 = Math.max(x1, x); y0 = Math.min(y0, y); y1 = Math.max(y1, y) }
+  if (corners && Math.max(x1 - x0, y1 - y0) > MAX_PLAN_EXTENT_M) {
+    ctx.addIssue({ code: 'custom', path: ['rooms'], message: `The rooms must fit within ${MAX_PLAN_EXTENT_M} m × ${MAX_PLAN_EXTENT_M} m` })
+  }
+})
+
 export const SavePlanInput = z.object({
   /** The version the edit started from; a different current version answers 409 stale_version. */
   version: z.number().int().positive(),
-  plan: Plan,
+  plan: SavablePlan,
 })
 export type SavePlanInput = z.input<typeof SavePlanInput>
 export const SavePlanResult = z.object({
