@@ -2,6 +2,7 @@ import { startRunWorkers } from './jobs/runs-worker'
 import type { Runtime } from './runtime'
 import { startDrillReminders } from './services/drill-notices.service'
 import { startPlanUpdates } from './services/plan-updates.service'
+import { startWeeklyDigest } from './services/stale-digest.service'
 import { sweepCodeVersions } from './services/staleness.service'
 
 /** Background services that run beside HTTP in the server process (job workers, schedulers). */
@@ -21,6 +22,8 @@ BACKGROUND.push(startDrillReminders)
 // "bring up to date" requests are finished by their own queue.
 BACKGROUND.push(async (rt) => { await sweepCodeVersions(rt.ctx.db).catch((e) => console.warn('[staleness]', (e as Error).message)) })
 BACKGROUND.push(startPlanUpdates)
+// Weekly digest to officers (issue 17): stale plans and missing or old acknowledgments, Mondays 06:00 UTC.
+BACKGROUND.push(startWeeklyDigest)
 
 export async function startBackground(rt: Runtime) {
   for (const start of BACKGROUND) await start(rt)

@@ -7,6 +7,7 @@ import { doorLineLabel, formatEventTime, formatFrom, formatPpm, formatSeconds, I
 import { RULES } from '../../shared/plans/rule-list'
 import { timeLeftText } from '../../shared/plans/rules'
 import type { AckRecord, PlanContent, PlanLine } from '../../shared/schemas/plans'
+import { STALE_KIND_LABELS, type PlanStaleness } from '../../shared/schemas/staleness'
 import { RunFieldsMeta, RunSummary } from '../../shared/schemas/runs'
 import { BRAND, cautionBox, renderPdf } from '../pdf/pdfmake'
 import { runFronts } from '../repositories/plans.repo'
@@ -28,6 +29,8 @@ export interface PlanPdfInput {
   floorPlan: Plan | null
   acks: AckRecord[]
   pending: string[]
+  /** Why the plan is out of date now (shown in the header), null when up to date. */
+  staleness?: PlanStaleness
 }
 
 const LEVEL_TEXT = { low: 'At the first (low) alarm', high: 'At the high alarm', none: 'No evacuation predicted' } as const
@@ -59,6 +62,21 @@ async function figureInputs(ctx: ServiceContext, orgId: number, runIds: number[]
     }
     return [{ runId: id, summary: summary.data, field }]
   })
+}
+
+/** The header's out-of-date notice: every reason in words, so a printed copy says it on its first page. */
+function staleBox(s: NonNullable<PlanStaleness>): Content {
+  return {
+    table: { widths: ['*'], body: [[{
+      stack: [
+        { text: `OUT OF DATE since ${s.since.slice(0, 10)}: what this plan is built on has changed`, bold: true, color: '#bf360c', margin: [0, 0, 0, 3] },
+        { ul: s.reasons.map((r) => ({ text: [{ text: `${STALE_KIND_LABELS[r.kind]}: `, bold: true }, r.reason] })), fontSize: 8.5 },
+        { text: 'Its times, doors and drill targets may no longer match the floor; the EHS officer brings it up to date (re-run, refresh, publish).', fontSize: 8, margin: [0, 3, 0, 0] },
+      ],
+      fillColor: '#fff1e8', margin: [6, 5, 6, 5],
+    }]] },
+    layout: { hLineColor: () => '#bf360c', vLineColor: () => '#bf360c' }, margin: [0, 0, 0, 8],
+  }
 }
 
 /**
@@ -98,6 +116,7 @@ export async function renderPlanPdf(p: PlanPdfInput): Promise<Buffer> {
   body.push({ text: c.title, fontSize: 18, bold: true, color: BRAND.navy, margin: [0, 2, 0, 2] })
   body.push({ text: `${p.siteName} · ${p.floorName} · version ${p.version} (${p.status === 'published' ? `published ${p.publishedAt?.slice(0, 10)}` : 'DRAFT, not published'})`, margin: [0, 0, 0, 2] })
   body.push({ text: [{ text: 'Version hash (sha256): ', bold: true }, p.hash ?? 'none yet: drafts have no hash'], fontSize: 8, margin: [0, 0, 0, 8] })
+  if (p.staleness) body.push(staleBox(p.staleness))
   body.push(cautionBox(['Exposure limits are for healthy adult workers; they are not lines between safe and dangerous.']))
   if (c.summary) body.push({ text: summaryForStatus(c.summary, p.status), margin: [0, 0, 0, 6] })
 

@@ -326,6 +326,7 @@ export async function planPdf(ctx: ServiceContext, actor: Actor, id: number, ver
     floorPlan: floorPlan?.success ? floorPlan.data : null,
     acks: acks.filter((a) => a.version === v.version).map(ackRecord),
     pending: managers.filter((m) => !acks.some((a) => a.version === v.version && a.user_id === m.id)).map((m) => m.name),
+    staleness: await stalenessOfPlan(ctx.db, actor.orgId, id),
   })
   await appendAudit(ctx.db, { orgId: actor.orgId, actorId: actor.id, action: 'plan.pdf_downloaded', targetType: 'plan', targetId: id, detail: { version } })
   return { bytes, fileName: `plan-${id}-v${v.version}.pdf` }
