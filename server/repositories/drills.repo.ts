@@ -141,9 +141,9 @@ export const listFindings = (db: Db, orgId: number, opts: { drillId?: number; op
 export const findFindingInOrg = (db: Db, orgId: number, id: number) =>
   db.selectFrom('drill_findings').selectAll().where('org_id', '=', orgId).where('id', '=', id).executeTakeFirst()
 
-export const updateFinding = (db: Db, id: number, p: { status: 'open' | 'closed'; note: string; userId: number }) =>
+export const updateFinding = (db: Db, id: number, p: { status: 'open' | 'closed'; note?: string; userId: number }) =>
   db.updateTable('drill_findings').set({
-    status: p.status, note: p.note,
+    status: p.status, ...(p.note !== undefined ? { note: p.note } : {}),
     ...(p.status === 'closed' ? { closed_at: sql`now()`, closed_by: p.userId } : { closed_at: null, closed_by: null }),
   }).where('id', '=', id).execute()
 

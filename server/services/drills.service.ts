@@ -172,7 +172,7 @@ export async function addFinding(ctx: ServiceContext, actor: Actor, id: number, 
   return getDrill(ctx, actor, id)
 }
 
-export async function changeFinding(ctx: ServiceContext, actor: Actor, findingId: number, p: { status: 'open' | 'closed'; note: string }) {
+export async function changeFinding(ctx: ServiceContext, actor: Actor, findingId: number, p: { status: 'open' | 'closed'; note?: string }) {
   const f = await findFindingInOrg(ctx.db, actor.orgId, findingId)
   if (!f) throw notFound('Finding')
   await updateFinding(ctx.db, findingId, { ...p, userId: actor.id })

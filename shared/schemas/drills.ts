@@ -101,7 +101,8 @@ export const NewFinding = z.object({
 })
 export const FindingUpdate = z.object({
   status: z.enum(['open', 'closed']),
-  note: Text(1000).default(''),
+  /** Absent: the note is kept (a partial update changes only what is sent). */
+  note: Text(1000).optional(),
 })
 
 export const Comparison = z.object({

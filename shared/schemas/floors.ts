@@ -35,7 +35,11 @@ export const SiteInput = z.object({
   address: z.string().trim().max(300, 'At most 300 characters').default(''),
 })
 export type SiteInput = z.input<typeof SiteInput>
-export const SiteUpdate = SiteInput.partial()
+/** A partial update changes only the fields sent: no defaults here (issue 14: a rename blanked the address). */
+export const SiteUpdate = z.object({
+  name: Name(120).optional(),
+  address: z.string().trim().max(300, 'At most 300 characters').optional(),
+})
 
 const UserIds = z.array(z.number().int().positive()).max(200).default([])
 
@@ -51,9 +55,14 @@ export const FloorInput = z.object({
   memberIds: UserIds,
 })
 export type FloorInput = z.input<typeof FloorInput>
-export const FloorUpdate = z
-  .object({ name: Name(120), ceilingHeightM: CeilingHeightM, managerIds: UserIds, memberIds: UserIds })
-  .partial()
+/** Only the fields sent change: no defaults (issue 14: a rename emptied managerIds and memberIds). */
+const UserIdsPatch = z.array(z.number().int().positive()).max(200)
+export const FloorUpdate = z.object({
+  name: Name(120).optional(),
+  ceilingHeightM: CeilingHeightM.optional(),
+  managerIds: UserIdsPatch.optional(),
+  memberIds: UserIdsPatch.optional(),
+})
 export type FloorUpdate = z.input<typeof FloorUpdate>
 
 /** One problem of the plan checks (shared/floorplan/checks.ts). */
