@@ -49,6 +49,11 @@ export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
   if (err?.type === 'entity.too.large') return send(413, 'too_large', 'The request body is too large')
   if (err?.type === 'entity.parse.failed') return send(400, 'malformed_json', 'The request body is not valid JSON', { body: 'Not valid JSON' })
   if (typeof err?.status === 'number' && err.status >= 400 && err.status < 500) return send(err.status, 'bad_request', String(err.message ?? 'Bad request'))
+  // Two writes racing for the same unique key (e.g. parallel draft saves right after a publish), or a serialization
+  // failure: the loser is told to reload, not handed a 500 (issue 14).
+  if (err?.code === '23505' || err?.code === '40001' || err?.code === '40P01') {
+    return send(409, 'conflict', 'Someone saved this at the same moment: reload to see their change, then try again')
+  }
   if (err?.code === 'ECONNREFUSED' || err?.code === '57P01' || /terminating connection|Connection terminated/i.test(String(err?.message))) {
     return send(503, 'database_unavailable', 'The database is briefly unavailable; try again in a moment')
   }
