@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto'
 import { hostname } from 'node:os'
 import type PgBoss from 'pg-boss'
 import { Plan } from '../../shared/floorplan/plan-schema'
+import { applySourceOffset } from '../../shared/runs/bundle'
 import { buildRunScenario } from '../../shared/runs/build-scenario'
 import { summarizeRun } from '../../shared/runs/summarize'
 import { ScenarioConfig } from '../../shared/schemas/runs'
@@ -90,6 +91,8 @@ export async function startRunWorkers(db: Db, jobs: JobQueue, opts: RunWorkerOpt
     if (!built.ok) return fail(`The scenario cannot run on the current plan: ${Object.entries(built.fields).map(([k, v]) => `${k}: ${v}`).join('; ')}`)
 
     let progress = 0
+    // A bundle's position case moves the leak (issue 17); every other case differs only in its ScenarioConfig.
+    if (config.data.sourceOffsetM) built.scenario = applySourceOffset(built.scenario, config.data)
     const engine = runSimulationInWorker(built.scenario, { onProgress: (f) => { progress = f } })
     let lost = false
     const beat = setInterval(() => {

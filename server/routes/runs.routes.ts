@@ -1,9 +1,11 @@
 import { SavePlanResult } from '../../shared/schemas/floors'
 import { IdParam } from '../../shared/schemas/common'
+import { RunBundle } from '../../shared/schemas/bundles'
 import { EgressQuery, EgressResult } from '../../shared/schemas/egress'
 import { AdvisorAccept, AdvisorProposal, AdvisorRequest, RunDetail, RunList, RunSeries, SweepDetail, SweepInput } from '../../shared/schemas/runs'
 import type { ApiRoutes } from '../http/define-route'
 import * as advisor from '../services/advisor.service'
+import * as bundles from '../services/bundles.service'
 import * as egress from '../services/egress.service'
 import type { ServiceContext } from '../services/context'
 import * as runs from '../services/runs.service'
@@ -24,6 +26,8 @@ export function runsRoutes(api: ApiRoutes, ctx: ServiceContext) {
     ({ actor, params, res }) => runs.sendRunFields(ctx, actor, params.id, res))
   api.add({ method: 'get', path: '/api/runs/:id/egress', summary: 'Egress routes per room and workstation: lowest-dose route to a marked exit that never crosses the critical limit (safe: false when none exists), with the dose along it', tag: 'runs', access: 'signed-in', params: IdParam, query: EgressQuery, response: EgressResult },
     ({ actor, params, query }) => egress.getRunEgress(ctx, actor, params.id, query))
+  api.add({ method: 'get', path: '/api/runs/:id/bundle', summary: "A run's sensitivity bundle (D ×0.3 and ×3, the named ventilation failure, nearby leak positions): each case's run, the earliest–latest band of every time to a limit with the case driving the earliest, and the cost against one run", tag: 'runs', access: 'signed-in', params: IdParam, response: RunBundle },
+    ({ actor, params }) => bundles.getRunBundle(ctx, actor, params.id))
   api.add({ method: 'post', path: '/api/runs/:id/cancel', summary: 'Cancel a queued or running run', tag: 'runs', access: OFFICERS, params: IdParam, response: RunDetail },
     ({ actor, params }) => runs.cancelRun(ctx, actor, params.id))
 

@@ -1,9 +1,12 @@
 import type { Response } from 'express'
+import { Plan } from '../../shared/floorplan/plan-schema'
+import { bundleCases } from '../../shared/runs/bundle'
 import { RUN_STATUSES, RunFieldsMeta, RunSummary, ScenarioConfig, type RunDetail, type RunListItem, type RunSeries } from '../../shared/schemas/runs'
 import { AppError, notFound } from '../http/errors'
 import type { Actor } from '../http/session-user'
 import { enqueueRun, RUNS_QUEUE } from '../jobs/runs-worker'
 import { appendAudit } from '../repositories/audit.repo'
+import { insertBundleMember } from '../repositories/bundles.repo'
 import { floorIdsOfUser } from '../repositories/floors.repo'
 import {
   findResultBinary, findResultMeta, findResultSeries, findRunInOrg, insertRun, listRuns, requestCancel,
@@ -33,6 +36,24 @@ export async function requireRun(ctx: ServiceContext, actor: Actor, id: number) 
   return run
 }
 
+/** Queues the scenario's sensitivity cases (none when it has them off); answers their run ids. */
+async function queueBundleCases(
+  ctx: ServiceContext, actor: Actor,
+  b: { nominalRunId: number; floor: { id: number; version: number; plan: unknown; ceiling_height_m: number }; label: string; config: ScenarioConfig },
+) {
+  if (!b.config.sensitivity?.enabled) return []
+  const plan = Plan.safeParse(b.floor.plan)
+  if (!plan.success) return []
+  const ids: number[] = []
+  for (const c of bundleCases(plan.data, b.floor.ceiling_height_m, b.config).cases) {
+    const run = await insertRun(ctx.db, { orgId: actor.orgId, floorId: b.floor.id, scenarioId: null, batchId: null, label: `${b.label} · sensitivity: ${c.label}`, config: c.config, floorVersion: b.floor.version, userId: actor.id })
+    await insertBundleMember(ctx.db, { runId: run.id, nominalRunId: b.nominalRunId, orgId: actor.orgId, caseKey: c.key, caseLabel: c.label })
+    await enqueueRun(ctx.db, ctx.jobs, run.id)
+    ids.push(run.id)
+  }
+  return ids
+}
+
 /** Creates the run row and its job. `config` is what this run uses (a sweep passes one source at a time). */
 export async function queueRun(
   ctx: ServiceContext, actor: Actor,
@@ -48,7 +69,9 @@ export async function startScenarioRun(ctx: ServiceContext, actor: Actor, scenar
   const config = ScenarioConfig.parse(row.config)
   checkRunnable(floor, config)
   const run = await queueRun(ctx, actor, { floorId: floor.id, floorVersion: floor.version, scenarioId, batchId: null, label: row.name, config })
-  await appendAudit(ctx.db, { orgId: actor.orgId, actorId: actor.id, action: 'run.queued', targetType: 'run', targetId: run.id, detail: { scenarioId } })
+  // Sensitivity bundle (issue 17): the extra cases as ordinary runs, each its own job, tied to this nominal run.
+  const bundle = await queueBundleCases(ctx, actor, { nominalRunId: run.id, floor, label: row.name, config })
+  await appendAudit(ctx.db, { orgId: actor.orgId, actorId: actor.id, action: 'run.queued', targetType: 'run', targetId: run.id, detail: { scenarioId, ...(bundle.length ? { bundle } : {}) } })
   return getRun(ctx, actor, run.id)
 }
 

@@ -34,6 +34,19 @@ export const ScenarioConfig = z.object({
   diffusivityM2S: z.number().positive().max(1).optional(),
   cellM: z.number().min(0.1).max(2).default(0.25),
   layers: z.number().int().min(1).max(30).default(6),
+  /**
+   * Sensitivity bundle (issue 17): with `enabled`, a run of this scenario also queues D ×0.3 and ×3, the named
+   * ventilation failure and the leak at nearby positions as separate runs (shared/runs/bundle.ts). Absent: off.
+   */
+  sensitivity: z.object({
+    enabled: z.boolean().default(true),
+    /** The ventilation failure to test beside the scenario's own state (none: no ventilation case). */
+    ventilationFailure: z.enum(['exhaust_failed', 'door_propped_open', 'downflow_off']).nullable().default(null),
+    /** Also move the leak by 1 m each way (inside its room) and keep the worst. */
+    positions: z.boolean().default(true),
+  }).optional(),
+  /** Set by a bundle's position case: every leaking source moved by this much in plan x and y, m. */
+  sourceOffsetM: z.tuple([z.number().min(-5).max(5), z.number().min(-5).max(5)]).optional(),
 })
 export type ScenarioConfig = z.infer<typeof ScenarioConfig>
 
