@@ -13,22 +13,40 @@ import type { ServiceContext } from '../services/context'
 const regenerate = (req: Request) => new Promise<void>((ok, ko) => req.session.regenerate((e) => (e ? ko(e) : ok())))
 const destroy = (req: Request) => new Promise<void>((ok, ko) => req.session.destroy((e) => (e ? ko(e) : ok())))
 
-/** Per address and e-mail, counting only failures, so a typo does not lock anyone out for long. */
-function limiter(limit: number, what: string): RequestHandler {
+/**
+ * The e-mail as the account lookup sees it (the Email schema trims and lower-cases), so " Admin@X " and "admin@x"
+ * share one counter (issue 14: leading spaces walked around the lock-out).
+ */
+export const limiterEmail = (v: unknown) => (typeof v === 'string' ? v.trim().toLowerCase() : JSON.stringify(v ?? null))
+
+type LimitOpts = { limit: number; windowMs: number; what: string; key: (req: Request) => string; onlyFailures: boolean }
+function limiter(o: LimitOpts): RequestHandler {
   return rateLimit({
-    windowMs: 15 * 60_000,
-    limit,
-    skipSuccessfulRequests: true,
+    windowMs: o.windowMs,
+    limit: o.limit,
+    skipSuccessfulRequests: o.onlyFailures,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
-    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '').toLowerCase()}`,
-    handler: (_req, _res, next) => next(new AppError(429, 'rate_limited', `Too many ${what} attempts. Wait 15 minutes and try again.`)),
+    keyGenerator: o.key,
+    handler: (_req, _res, next) => next(new AppError(429, 'rate_limited', `Too many ${o.what}. Wait ${Math.round(o.windowMs / 60_000)} minutes and try again.`)),
   })
 }
+// req.ip honours X-Forwarded-For only from the loopback proxy (app 'trust proxy'), so a client cannot pick its own.
+const client = (req: Request) => ipKeyGenerator(req.ip ?? '')
+const MIN15 = 15 * 60_000
 
 export function authRoutes(api: ApiRoutes, ctx: ServiceContext) {
-  api.router.post(API.login, limiter(ctx.config.loginRateLimit, 'sign-in'))
-  api.router.post(API.forgot, limiter(5, 'password-reset'))
+  // Sign-in counts failures three ways: per account and client, per account from anywhere (a botnet spreading one
+  // account's guesses), and per client over all accounts (one client trying many addresses).
+  const n = ctx.config.loginRateLimit
+  api.router.post(API.login,
+    limiter({ limit: n, windowMs: MIN15, what: 'sign-in attempts', onlyFailures: true, key: (req) => `ac|${client(req)}|${limiterEmail(req.body?.email)}` }),
+    limiter({ limit: 3 * n, windowMs: MIN15, what: 'sign-in attempts for this account', onlyFailures: true, key: (req) => `a|${limiterEmail(req.body?.email)}` }),
+    limiter({ limit: 2 * n, windowMs: MIN15, what: 'failed sign-ins from this connection', onlyFailures: true, key: (req) => `c|${client(req)}` }))
+  // Reset mail always answers 200, so every request counts: at most 3 mails an hour to one address, 10 requests per client.
+  api.router.post(API.forgot,
+    limiter({ limit: 3, windowMs: 60 * 60_000, what: 'password-reset requests for this address', onlyFailures: false, key: (req) => `fa|${limiterEmail(req.body?.email)}` }),
+    limiter({ limit: 10, windowMs: MIN15, what: 'password-reset requests', onlyFailures: false, key: (req) => `fc|${client(req)}` }))
 
   api.add({ method: 'get', path: API.csrf, summary: 'Get the CSRF token (also set as the dw_csrf cookie)', tag: 'auth', access: 'public', response: CsrfToken },
     ({ res }) => ({ csrfToken: res.locals.csrfToken as string }))

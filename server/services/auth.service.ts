@@ -4,7 +4,7 @@ import type { Actor } from '../http/session-user'
 import { composeMail } from '../mail/compose'
 import { appendAudit } from '../repositories/audit.repo'
 import { findOrg } from '../repositories/orgs.repo'
-import { deleteSessionsOfUser, findActiveUserById, findUserByEmail, findUserById, updateUser } from '../repositories/users.repo'
+import { deleteSessionsOfUser, findActiveUserById, findUserByEmail, findUserById, listUsersInOrg, updateUser } from '../repositories/users.repo'
 import type { ServiceContext } from './context'
 import { burnVerify, hashPassword, verifyPassword } from './passwords'
 import { inspectLink, issueLink, redeemLink } from './signed-links'
@@ -64,6 +64,24 @@ export async function resetPassword(ctx: ServiceContext, token: string, password
   // A reset ends sessions elsewhere: whoever knew the old password is signed out.
   await deleteSessionsOfUser(ctx.db, row.user_id)
   await appendAudit(ctx.db, { orgId: u.org_id, actorId: row.user_id, action: 'user.password_reset', targetType: 'user', targetId: row.user_id })
+  if (u.role === 'admin') await tellOtherAdmins(ctx, u)
+}
+
+/** An administrator's password was reset: the other administrators hear of it, so a takeover does not go unseen. */
+async function tellOtherAdmins(ctx: ServiceContext, u: { id: number; org_id: number; name: string; email: string }) {
+  const others = (await listUsersInOrg(ctx.db, u.org_id)).filter((o) => o.role === 'admin' && o.status === 'active' && o.id !== u.id)
+  for (const o of others) {
+    const mail = composeMail({
+      subject: `Administrator password reset: ${u.name}`,
+      greeting: `Hello ${o.name},`,
+      paragraphs: [
+        `The password of ${u.name} (${u.email}), an administrator of your Driftwarden organization, was just reset through an e-mailed link, and their other sessions were signed out.`,
+        'If they did not expect this, deactivate the account in Users and contact them by phone.',
+      ],
+      withCaution: false,
+    })
+    await ctx.mail.queue(ctx.db, { orgId: u.org_id, kind: 'admin_password_reset', ref: `user:${u.id}`, to: o.email, ...mail })
+  }
 }
 
 /** Sets name and password for an invited account and activates it; returns the user id to sign in. */
