@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { IdParam } from '../../shared/schemas/common'
+import { IdParam, PathId } from '../../shared/schemas/common'
 import {
   CancelDrill, ConfirmInfo, ConfirmToken, DRILL_API, DrillChange, DrillDetail, DrillList, DrillOverview, DrillRecordInput, FindingUpdate,
   NewDrill, NewFinding, SiteFrequency,
@@ -9,7 +9,7 @@ import type { ServiceContext } from '../services/context'
 import * as drills from '../services/drills.service'
 
 const OFFICERS = ['admin', 'ehs_officer'] as const
-const SiteIdParam = z.object({ siteId: z.coerce.number().int().positive() })
+const SiteIdParam = z.object({ siteId: PathId })
 const People = z.object({ people: z.array(z.object({ id: z.number(), name: z.string(), email: z.string(), role: z.string() })) })
 
 /** Drills. Fixed paths come before /api/drills/:id so that "confirm" or "overview" is never read as an id. */

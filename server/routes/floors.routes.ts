@@ -5,6 +5,7 @@ import {
   SavePlanResult, ScenarioExportQuery,
 } from '../../shared/schemas/floors'
 import type { ApiRoutes } from '../http/define-route'
+import { AppError } from '../http/errors'
 import type { ServiceContext } from '../services/context'
 import * as floors from '../services/floors.service'
 import * as uploads from '../services/uploads.service'
@@ -13,6 +14,13 @@ const OFFICERS = ['admin', 'ehs_officer'] as const
 
 // Kept in memory: the bytes go straight into PostgreSQL, and the size limit stops big bodies early (413).
 const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_FLOOR_IMAGE_BYTES, files: 1, fields: 5 } })
+
+/** A multipart body without a boundary, cut short or malformed is the sender's fault: 400 on "file", not 500 (issue 14). */
+function uploadError(err: unknown): unknown {
+  if (err instanceof multer.MulterError || err instanceof AppError) return err
+  const message = err instanceof Error ? err.message : String(err)
+  return new AppError(400, 'bad_upload', `The upload could not be read (${message}); send the image as multipart/form-data in the field "file"`, { file: 'The upload could not be read' })
+}
 
 export function floorsRoutes(api: ApiRoutes, ctx: ServiceContext) {
   api.add({ method: 'get', path: FLOOR_API.floors, summary: 'Every floor the caller can see', tag: 'floors', access: 'signed-in', response: FloorList },
@@ -40,7 +48,7 @@ export function floorsRoutes(api: ApiRoutes, ctx: ServiceContext) {
   api.add({ method: 'post', path: '/api/floors/:id/images', summary: 'Upload a PNG or JPEG floor plan to trace (at most 10 MB)', tag: 'floors', access: OFFICERS, params: IdParam, response: FloorImage, status: 201, requestContentType: 'multipart/form-data' },
     async ({ actor, params, req, res }) => {
       // Parsed here, after the role check, so unauthorised callers never get their upload buffered.
-      await new Promise<void>((resolve, reject) => upload.single('file')(req, res, (err: unknown) => (err ? reject(err) : resolve())))
+      await new Promise<void>((resolve, reject) => upload.single('file')(req, res, (err: unknown) => (err ? reject(uploadError(err)) : resolve())))
       return uploads.uploadFloorImage(ctx, actor, params.id, req.file)
     })
 

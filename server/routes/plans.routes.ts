@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { IdParam } from '../../shared/schemas/common'
+import { IdParam, PathId } from '../../shared/schemas/common'
 import {
   AckInput, AckRecord, AuditList, NewPlan, PLAN_API, PlanContent, PlanDetail, PlanList, PlanStatus, PlanVersionParams, PublishInput,
   RefreshPlan, RunChoiceList, SaveDraft,
@@ -10,7 +10,7 @@ import * as plans from '../services/plans.service'
 
 const OFFICERS = ['admin', 'ehs_officer'] as const
 const READERS = ['admin', 'ehs_officer', 'lab_manager'] as const
-const FloorIdParam = z.object({ floorId: z.coerce.number().int().positive() })
+const FloorIdParam = z.object({ floorId: PathId })
 const VersionBody = z.object({ version: z.number().int(), status: PlanStatus, contentHash: z.string().nullable(), content: PlanContent })
 
 /** Response plans. Acknowledgments have no update or delete route: they are append-only (also in the database). */

@@ -12,8 +12,21 @@ export const ROLE_LABELS: Record<Role, string> = {
   staff: 'Staff',
 }
 
+/** Largest id (and version) PostgreSQL's integer columns hold: 2³¹ − 1. Larger ones answered 500 (issue 14). */
+export const MAX_DB_ID = 2_147_483_647
+
+/** A positive integer id in a JSON body. */
+export const DbId = z.number().int('A whole number').positive('Must be 1 or more').max(MAX_DB_ID, `At most ${MAX_DB_ID}`)
+
+/**
+ * A positive integer id in a path: digits only, so "%201", "0x10" or "1e3" are refused rather than read as 1, 16
+ * or 1000 (issue 14), and within PostgreSQL's integer range.
+ */
+export const PathId = z.string().regex(/^[1-9][0-9]{0,9}$/, 'A whole number id (digits only)').transform(Number)
+  .pipe(z.number().max(MAX_DB_ID, `At most ${MAX_DB_ID}`))
+
 /** Positive integer id in a path parameter, e.g. /api/users/12. */
-export const IdParam = z.object({ id: z.coerce.number().int().positive() })
+export const IdParam = z.object({ id: PathId })
 
 /** The one error shape every API failure answers with. */
 export const ErrorBody = z.object({

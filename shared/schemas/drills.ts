@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { Email } from './common'
+import { DbId, Email } from './common'
 import { ChecklistStep } from './plans'
 
 /** Drills: scheduled for a published plan version, noticed by e-mail with a calendar file, recorded, followed up. */
@@ -19,6 +19,8 @@ export const isTimeZone = (tz: string) => {
 export const TimeZone = z.string().trim().refine(isTimeZone, 'Not an IANA time zone, e.g. Europe/Berlin')
 export const LocalDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'A date as YYYY-MM-DD')
   .refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s), 'Not a real date')
+  // PostgreSQL has no year 0 ("0000-01-01" answered 500, issue 14); drills and due dates live in this range.
+  .refine((s) => Number(s.slice(0, 4)) >= 1900 && Number(s.slice(0, 4)) <= 2999, 'A date between the years 1900 and 2999')
 export const LocalTime = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'A time as HH:MM (24 h)')
 
 export const PARTICIPANT_GROUPS = ['floor_staff', 'floor_managers'] as const
@@ -29,16 +31,16 @@ export const PARTICIPANT_GROUP_LABELS: Record<(typeof PARTICIPANT_GROUPS)[number
 }
 
 export const DrillParticipantsInput = z.object({
-  userIds: z.array(z.number().int().positive()).max(500).default([]),
+  userIds: z.array(DbId).max(500).default([]),
   groups: z.array(ParticipantGroup).max(2).default([]),
   /** People without an account (contractors, visitors): name and e-mail. */
   guests: z.array(z.object({ name: ReqText(120), email: Email })).max(100).default([]),
 })
 
 export const NewDrill = z.object({
-  planId: z.number().int().positive(),
+  planId: DbId,
   /** A published version of the plan. */
-  planVersion: z.number().int().positive(),
+  planVersion: DbId,
   title: ReqText(200),
   date: LocalDate,
   time: LocalTime,
@@ -46,7 +48,7 @@ export const NewDrill = z.object({
   durationMinutes: z.number().int().min(5, 'At least 5 minutes').max(8 * 60, 'At most 8 hours').default(60),
   location: ReqText(300),
   scenario: ReqText(2000),
-  officerId: z.number().int().positive(),
+  officerId: DbId,
   /** Minutes before the start when the reminder goes out. */
   reminderMinutes: z.number().int().min(5).max(14 * 24 * 60).default(24 * 60),
   participants: DrillParticipantsInput,
@@ -96,7 +98,7 @@ export type DrillRecordInput = z.infer<typeof DrillRecordInput>
 export const NewFinding = z.object({
   finding: ReqText(1000),
   action: ReqText(1000),
-  ownerId: z.number().int().positive(),
+  ownerId: DbId,
   dueDate: LocalDate,
 })
 export const FindingUpdate = z.object({

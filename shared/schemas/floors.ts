@@ -1,6 +1,6 @@
 import { z } from 'zod'
 import { Plan } from '../floorplan/plan-schema'
-import { Name, Role } from './common'
+import { DbId, Name, PathId, Role } from './common'
 
 /** API paths of sites, floors and their images (client and server both build URLs from here). */
 export const FLOOR_API = {
@@ -41,7 +41,7 @@ export const SiteUpdate = z.object({
   address: z.string().trim().max(300, 'At most 300 characters').optional(),
 })
 
-const UserIds = z.array(z.number().int().positive()).max(200).default([])
+const UserIds = z.array(DbId).max(200).default([])
 
 /** Ceiling height, metres: the engine's domain height. */
 export const CeilingHeightM = z.number().finite().min(1.8, 'At least 1.8 m').max(30, 'At most 30 m')
@@ -56,7 +56,7 @@ export const FloorInput = z.object({
 })
 export type FloorInput = z.input<typeof FloorInput>
 /** Only the fields sent change: no defaults (issue 14: a rename emptied managerIds and memberIds). */
-const UserIdsPatch = z.array(z.number().int().positive()).max(200)
+const UserIdsPatch = z.array(DbId).max(200)
 export const FloorUpdate = z.object({
   name: Name(120).optional(),
   ceilingHeightM: CeilingHeightM.optional(),
@@ -116,7 +116,7 @@ export const SavablePlan = Plan.superRefine((plan, ctx) => {
 
 export const SavePlanInput = z.object({
   /** The version the edit started from; a different current version answers 409 stale_version. */
-  version: z.number().int().positive(),
+  version: DbId,
   plan: SavablePlan,
 })
 export type SavePlanInput = z.input<typeof SavePlanInput>
@@ -150,6 +150,6 @@ export const FloorImage = z.object({
 export type FloorImage = z.infer<typeof FloorImage>
 
 export const FloorImageParams = z.object({
-  id: z.coerce.number().int().positive(),
-  imageId: z.coerce.number().int().positive(),
+  id: PathId,
+  imageId: PathId,
 })

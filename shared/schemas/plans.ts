@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { PlanStaleness, PlanUpdateState } from './staleness'
+import { DbId, PathId } from './common'
 
 /**
  * Response plans: the document an officer generates from scenario results, edits, publishes as a frozen
@@ -209,10 +210,10 @@ export const PlanListItem = z.object({
 export type PlanListItem = z.infer<typeof PlanListItem>
 export const PlanList = z.object({ plans: z.array(PlanListItem) })
 
-const PlanRunIds = z.array(z.number().int().positive()).min(1, 'Pick at least one result').max(20, 'At most 20 results')
+const PlanRunIds = z.array(DbId).min(1, 'Pick at least one result').max(20, 'At most 20 results')
 
 export const NewPlan = z.object({
-  floorId: z.number().int().positive(),
+  floorId: DbId,
   runIds: PlanRunIds,
   title: Text(200).optional(),
 })
@@ -233,7 +234,7 @@ export const PublishInput = z.object({
 export const AckInput = z.object({ comment: Text(1000).default('') })
 export type AckInput = z.infer<typeof AckInput>
 
-export const PlanVersionParams = z.object({ id: z.coerce.number().int().positive(), version: z.coerce.number().int().positive() })
+export const PlanVersionParams = z.object({ id: PathId, version: PathId })
 
 export const AuditItem = z.object({ at: z.string(), actor: z.string().nullable(), action: z.string(), detail: z.record(z.string(), z.unknown()) })
 export const AuditList = z.object({ entries: z.array(AuditItem) })

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { DbId } from './common'
 
 /**
  * Scenarios, runs and their summaries. The summary is what plans, drills and the results page read;
@@ -223,7 +224,7 @@ const Point = z.tuple([z.number().min(-1e4).max(1e4), z.number().min(-1e4).max(1
 
 export const AdvisorRequest = z.object({
   /** Finished runs (leak scenarios) of this floor to cover. */
-  runIds: z.array(z.number().int().positive()).min(1, 'Pick at least one run').max(50),
+  runIds: z.array(DbId).min(1, 'Pick at least one run').max(50),
   /** Candidate mounting points picked on the plan; or give gridSpacingM for a grid over the rooms. */
   candidates: z.array(Point).max(2000).default([]),
   gridSpacingM: z.number().min(0.25, 'At least 0.25 m').max(20).optional(),
@@ -261,7 +262,7 @@ export type AdvisorProposal = z.infer<typeof AdvisorProposal>
 
 export const AdvisorAccept = z.object({
   /** The floor version the officer saw; a newer save answers 409. */
-  version: z.number().int().positive(),
+  version: DbId,
   gasId: z.string().min(1),
   positions: z.array(Point).min(1).max(20),
   mountingHeightM: z.number().min(0).max(20),
