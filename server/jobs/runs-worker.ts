@@ -33,9 +33,10 @@ export async function ensureRunsQueue(jobs: JobQueue) {
   await jobs.ensureQueue(RUNS_QUEUE, { retryLimit: MAX_ATTEMPTS - 1, retryDelay: 1, retryBackoff: false, expireInSeconds: 6 * 3600 })
 }
 
-export async function enqueueRun(db: Db, jobs: JobQueue, runId: number): Promise<string> {
+/** `priority` below 0 lets every ordinary run go first (a bundle's sensitivity cases: issue 17). */
+export async function enqueueRun(db: Db, jobs: JobQueue, runId: number, priority = 0): Promise<string> {
   await ensureRunsQueue(jobs)
-  const jobId = await jobs.boss.send(RUNS_QUEUE, { runId }, { retryLimit: MAX_ATTEMPTS - 1, retryDelay: 1, expireInSeconds: 6 * 3600 })
+  const jobId = await jobs.boss.send(RUNS_QUEUE, { runId }, { retryLimit: MAX_ATTEMPTS - 1, retryDelay: 1, expireInSeconds: 6 * 3600, ...(priority ? { priority } : {}) })
   if (!jobId) throw new Error('the job queue refused the run')
   await setRunJob(db, runId, jobId)
   return jobId

@@ -2,7 +2,10 @@ import { createHash } from 'node:crypto'
 import { Plan } from '../../shared/floorplan/plan-schema'
 import { hashInput } from '../../shared/plans/canonical'
 import { refreshFromResults } from '../../shared/plans/refresh'
-import { generatePlan, type PlanRunInput } from '../../shared/plans/rules'
+import { formatEventTime, formatSeconds, ISOLATION_NONE } from '../../shared/plans/format'
+import { generatePlan, timeLeftText, type PlanRunInput } from '../../shared/plans/rules'
+import { conservativeCase } from '../../shared/runs/bundle'
+import { bundleMembers } from '../repositories/bundles.repo'
 import { egressOfRun } from './egress.service'
 import {
   type AckRecord, type NewPlan, PlanContent, type PlanDetail, type PlanListItem, type VersionSummary,
@@ -106,6 +109,29 @@ export async function runsOfFloor(ctx: ServiceContext, actor: Actor, floorId: nu
   }
 }
 
+/**
+ * A result with a finished sensitivity bundle is read at its conservative end (shared/runs/bundle.ts conservativeCase):
+ * the case's own run, labelled so, with a sentence saying so; still-running cases leave the nominal, said too.
+ */
+async function conservativeOfRun(ctx: ServiceContext, actor: Actor, run: PlanRunInput): Promise<{ run: PlanRunInput; note: string | null }> {
+  const members = await bundleMembers(ctx.db, actor.orgId, run.id)
+  if (!members.length) return { run, note: null }
+  if (members.some((m) => m.status === 'queued' || m.status === 'running')) {
+    return { run, note: `${run.label}: its sensitivity cases are still running, so this draft uses the nominal times; refresh it from the same result when they have finished.` }
+  }
+  const cases = [{ key: 'nominal', label: 'nominal', runId: run.id, summary: run.summary }, ...members.flatMap((m) => {
+    const s = m.status === 'succeeded' ? RunSummary.safeParse(m.summary) : null
+    return s?.success ? [{ key: m.case_key, label: m.case_label, runId: m.run_id, summary: s.data }] : []
+  })]
+  const pick = conservativeCase(cases)!
+  const intro = `Times are the conservative end of the sensitivity band of ${run.label} (${cases.length} cases; ${members.length + 1 - cases.length ? `${members.length + 1 - cases.length} failed and left out; ` : ''}the case reaching a critical level first)`
+  if (pick.key === 'nominal') return { run, note: `${intro}: the nominal case itself.` }
+  return {
+    run: { id: pick.runId, label: `${run.label} – conservative end: ${pick.label}`, summary: pick.summary },
+    note: `${intro}: ${pick.label}, run #${pick.runId}, in place of the nominal run #${run.id}.`,
+  }
+}
+
 /** The chosen finished results of a floor as rule inputs, and the floor; a 400 naming each bad id. */
 async function planInputs(ctx: ServiceContext, actor: Actor, floorId: number, runIds: number[]) {
   const floor = await requireVisibleFloor(ctx.db, actor, floorId)
@@ -123,15 +149,31 @@ async function planInputs(ctx: ServiceContext, actor: Actor, floorId: number, ru
   if (Object.keys(fields).length) throw new AppError(400, 'validation_failed', `Some fields are not valid: ${Object.keys(fields).join(', ')}`, fields)
   const planDoc = Plan.safeParse(floor.plan)
   if (!planDoc.success) throw new AppError(400, 'validation_failed', 'The floor plan cannot be read', { floorId: 'The floor plan is not valid' })
+  // Sensitivity bundles (issue 17): a result whose cases have finished is read at its conservative end, the nominal kept beside it.
+  const floorInput = { name: floor.name, siteName: floor.site_name, plan: planDoc.data }
+  const nominals = [...runs]
+  const bundleNotes: string[] = []
+  for (const [i, run] of runs.entries()) {
+    const c = await conservativeOfRun(ctx, actor, run)
+    if (c.note) bundleNotes.push(c.note)
+    runs[i] = c.run
+  }
   // Egress routes from each run's stored fields over the floor as drawn now (the Evacuation section and drill steps use them).
   for (const run of runs) run.egress = await egressOfRun(ctx, run.id, planDoc.data, run.summary)
-  return { floor, ids, runs, floorInput: { name: floor.name, siteName: floor.site_name, plan: planDoc.data } }
+  if (runs.some((r, i) => r !== nominals[i])) {
+    const nominal = generatePlan(floorInput, nominals).predicted
+    bundleNotes.push(`Nominal beside it: first alarm ${formatEventTime(nominal.firstAlarmS, 'none')}, smallest time left for egress ${timeLeftText(nominal.egressMarginS, nominal.firstAlarmS !== null)}, isolate within ${formatSeconds(nominal.isolationByS, ISOLATION_NONE)}.`)
+  }
+  return { floor, ids, runs, floorInput, bundleNotes }
 }
+
+/** The conservative-end statement of the bundles (and the nominal figures beside it) follows the generated summary. */
+const withBundleNotes = <T extends { summary: string }>(c: T, notes: string[]): T => (notes.length ? { ...c, summary: [c.summary, ...notes].filter(Boolean).join(' ') } : c)
 
 /** Applies the rules of shared/plans/rules.ts to the chosen results and stores the draft of version 1. */
 export async function createPlan(ctx: ServiceContext, actor: Actor, input: NewPlan): Promise<PlanDetail> {
-  const { floor, ids, runs, floorInput } = await planInputs(ctx, actor, input.floorId, input.runIds)
-  const content = PlanContent.parse(generatePlan(floorInput, runs, input.title))
+  const { floor, ids, runs, floorInput, bundleNotes } = await planInputs(ctx, actor, input.floorId, input.runIds)
+  const content = PlanContent.parse(withBundleNotes(generatePlan(floorInput, runs, input.title), bundleNotes))
 
   const id = await ctx.db.transaction().execute(async (trx) => {
     const plan = await insertPlan(trx, { orgId: actor.orgId, floorId: floor.id, floorName: floor.name, siteName: floor.site_name, runIds: ids, userId: actor.id })
@@ -207,8 +249,8 @@ async function writeDraft(db: Db, actor: Actor, planId: number, draft: VersionRo
 export async function refreshPlan(ctx: ServiceContext, actor: Actor, id: number, runIds: number[]): Promise<PlanDetail> {
   const plan = await requirePlan(ctx, actor, id)
   if (plan.floor_id === null) throw conflict('The floor of this plan was deleted: it can no longer be refreshed from results', 'floor_deleted')
-  const { ids, runs, floorInput } = await planInputs(ctx, actor, plan.floor_id, runIds)
-  const fresh = PlanContent.parse(generatePlan(floorInput, runs))
+  const { ids, runs, floorInput, bundleNotes } = await planInputs(ctx, actor, plan.floor_id, runIds)
+  const fresh = PlanContent.parse(withBundleNotes(generatePlan(floorInput, runs), bundleNotes))
   await ctx.db.transaction().execute(async (trx) => {
     const draft = await findDraft(trx, id)
     const base = draft ?? (await findLatestPublished(trx, id))!

@@ -48,7 +48,7 @@ async function queueBundleCases(
   for (const c of bundleCases(plan.data, b.floor.ceiling_height_m, b.config).cases) {
     const run = await insertRun(ctx.db, { orgId: actor.orgId, floorId: b.floor.id, scenarioId: null, batchId: null, label: `${b.label} · sensitivity: ${c.label}`, config: c.config, floorVersion: b.floor.version, userId: actor.id })
     await insertBundleMember(ctx.db, { runId: run.id, nominalRunId: b.nominalRunId, orgId: actor.orgId, caseKey: c.key, caseLabel: c.label })
-    await enqueueRun(ctx.db, ctx.jobs, run.id)
+    await enqueueRun(ctx.db, ctx.jobs, run.id, -1) // after every ordinary run: the nominal answers first
     ids.push(run.id)
   }
   return ids

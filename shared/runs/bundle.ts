@@ -62,11 +62,8 @@ export function bundleCases(plan: Plan, ceilingM: number, config: ScenarioConfig
     }
   }
   if (sens.ventilationFailure && sens.ventilationFailure !== config.ventilationState) {
-    if (sens.ventilationFailure === 'door_propped_open' && !config.proppedOpeningIds.length) {
-      notes.push('Door propped open is named as the ventilation failure but no door is chosen to prop: that case is left out.')
-    } else {
-      cases.push({ key: `vent_${sens.ventilationFailure}`, label: VENTILATION_STATE_LABELS[sens.ventilationFailure], config: { ...base, ventilationState: sens.ventilationFailure } })
-    }
+    // For a propped door the scenario's chosen doors are used; none chosen means every door (as for the scenario itself).
+    cases.push({ key: `vent_${sens.ventilationFailure}`, label: VENTILATION_STATE_LABELS[sens.ventilationFailure], config: { ...base, ventilationState: sens.ventilationFailure } })
   }
   if (sens.positions) {
     const moves: [string, number, number][] = [['east', 1, 0], ['west', -1, 0], ['north', 0, 1], ['south', 0, -1]]
@@ -136,4 +133,27 @@ export function bundleBand(cases: { key: string; summary: RunSummary }[]): { row
     return { id: r.id, name: r.name, nominalPpm: r.peakPpm, lowPpm: Math.min(...vals.map((v) => v.p)), highPpm: hi.p, highCase: hi.key }
   })
   return { rows, peaks }
+}
+
+const CRITICAL = ['idlh', 'lel_25', 'o2_19_5']
+const isExposure = (k: string) => /^(rel_|pel_|ceiling)/.test(k)
+
+/**
+ * The conservative end of a bundle, as plans, drill targets and the advisor use it: the case in which a critical
+ * level (IDLH, 25 % LEL, O2 19.5 %) is reached first in any room or at any workstation; ties (or no critical level
+ * at all) go to the earliest exposure limit at a workstation, then to the nominal. One real computed case, so its
+ * times, alarms and routes stay consistent with one another.
+ */
+export function conservativeCase<T extends { key: string; summary: RunSummary }>(cases: T[]): T | null {
+  if (!cases.length) return null
+  const first = (s: RunSummary, keys: (k: string) => boolean, rooms: boolean) => {
+    const ts = [...s.receptors.filter((r) => r.kind === 'workstation'), ...(rooms ? s.rooms : [])]
+      .flatMap((r) => Object.entries(r.firstExceedS).filter(([k, v]) => keys(k) && v !== null).map(([, v]) => v as number))
+    return ts.length ? Math.min(...ts) : Infinity
+  }
+  const score = (c: T) => [first(c.summary, (k) => CRITICAL.includes(k), true), first(c.summary, isExposure, false), c.key === 'nominal' ? 0 : 1] as const
+  return [...cases].sort((a, b) => {
+    const x = score(a), y = score(b)
+    return x[0] - y[0] || x[1] - y[1] || x[2] - y[2]
+  })[0]!
 }

@@ -3,6 +3,7 @@ import { insertFloor } from '../../server/repositories/floors.repo'
 import type { Runtime } from '../../server/runtime'
 import { checkPlan, isPlanValid } from '../../shared/floorplan/checks'
 import { LIBRARY_GAS_IDS } from '../../shared/floorplan/gas-ids'
+import { conservativeCase } from '../../shared/runs/bundle'
 import { RunBundle } from '../../shared/schemas/bundles'
 import { RunDetail, type RunSummary } from '../../shared/schemas/runs'
 import { signIn, startTestRuntime, type ApiAgent } from '../support/test-runtime'
@@ -121,4 +122,37 @@ describe('sensitivity bundles', () => {
     expect(b.cost.text).toMatch(/^A single run: the sensitivity cases are off/)
     expect(b.band.every((r) => r.earliestS === r.nominalS && r.earliestCase === (r.nominalS === null ? null : 'nominal'))).toBe(true)
   }, 120_000)
+
+  it('a plan from a bundled result uses its conservative end, says so, and gives the nominal beside it', async () => {
+    const floorId = await floorWith(0, 0)
+    // The office's desk is the workstation; the corridor and the office see the gas only through doors.
+    const sc = await scenario(floorId, 'NH3 plan bundle', { durationS: 180, sensitivity: { enabled: true, ventilationFailure: 'exhaust_failed', positions: false } })
+    const nominalId = await runOf(sc)
+    await finished(nominalId)
+    let b = RunBundle.parse((await officer.get(`/api/runs/${nominalId}/bundle`).expect(200)).body)
+    for (let i = 0; i < 600 && !b.complete; i++) {
+      await new Promise((r) => setTimeout(r, 200))
+      b = RunBundle.parse((await officer.get(`/api/runs/${nominalId}/bundle`).expect(200)).body)
+    }
+    expect(b.cases.map((c) => c.key)).toEqual(['nominal', 'd_x0.3', 'd_x3', 'vent_exhaust_failed'])
+    const cases = await Promise.all(b.cases.map(async (c) => ({ ...c, summary: await finished(c.runId) })))
+    const pick = conservativeCase(cases)!
+    const plan = (await officer.post('/api/plans').send({ floorId, runIds: [nominalId] }).expect(201)).body
+    const content = plan.current.content
+    expect(plan.runIds).toEqual([nominalId])
+    expect(content.summary).toContain('Times are the conservative end of the sensitivity band of NH3 plan bundle (4 cases; the case reaching a critical level first)')
+    expect(content.summary).toMatch(/Nominal beside it: first alarm .+, smallest time left for egress .+, isolate within .+\./)
+    // The timeline is the picked case's, row for row (its own run id in each row).
+    const critS = pick.summary.rooms.find((r) => r.id === 'S')!.firstExceedS.idlh
+    const row = content.timeline.rows.find((r: { id: string }) => r.id === `tl-${pick.runId}-S-idlh`)
+    expect(row?.timeS).toBe(critS)
+    // With the extract off the gas room reaches IDLH soonest: the plan is built on that case, not on the nominal.
+    expect(pick.key).toBe('vent_exhaust_failed')
+    {
+      expect(content.summary).toContain(`${pick.label}, run #${pick.runId}, in place of the nominal run #${nominalId}`)
+      expect(content.timeline.rows.some((r: { id: string }) => r.id.startsWith(`tl-${nominalId}-`))).toBe(false)
+    }
+    // No case reaches a critical level sooner in room S than the one the plan uses.
+    for (const c of cases) expect(c.summary.rooms.find((r) => r.id === 'S')!.firstExceedS.idlh ?? Infinity).toBeGreaterThanOrEqual(critS ?? Infinity)
+  }, 240_000)
 })
