@@ -5,5 +5,7 @@
  * (refactors, speed-ups that keep the output) leave it alone.
  *
  * 1: the engine as of 2 Dec 2026 (results stored before versions were recorded count as 1).
+ * 2: issue 12: step control that sees advection, sinks and transfer air (trapezoidal defect), Crank-Nicolson on
+ *    advective faces at Courant ≤ 1, smaller first steps after a puff.
  */
-export const ENGINE_VERSION = 1
+export const ENGINE_VERSION = 2

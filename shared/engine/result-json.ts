@@ -41,6 +41,7 @@ export function resultToJson(r: SimulationResult, opts: ResultJsonOptions = {}) 
     gas: { id: r.gas.id, name: r.gas.name },
     thresholds: r.thresholds.map((t) => ({ label: t.label, ppm: round(t.ppm) })),
     grid: { nx: r.grid.nx, ny: r.grid.ny, nz: r.grid.nz, cell_m: r.grid.cell_m, layer_m: round(r.grid.layer_m), origin_m: r.grid.origin_m },
+    error_control: r.error_control,
     stats: { ...r.stats, wall_s: round(r.stats.wall_s, 4) },
   }
   if (opts.fields) {

@@ -177,3 +177,25 @@ export function addColumnMultiple(r: Float64Array, runs: Int32Array, nb: number,
     }
   }
 }
+
+/**
+ * Trapezoidal defect of the step just taken, summed per room: Σ|ΔC − h/2·(L Cⁿ + L Cⁿ⁺¹)| where L is
+ * the whole semi-discrete operator without sources (transport, sinks, cleanroom return). For an exactly
+ * solved Crank-Nicolson step it is zero; what remains is what the h³C''' estimate cannot see: the
+ * backward-Euler parts (advective faces, stiff sinks: first order, ≈ h²/2·|C''|), the approximate
+ * factorisation's splitting error and a stalled approach to a steady state. Source cells are corrected
+ * by the caller (their input is part of ΔC). Adds into roomDef; allocates nothing.
+ */
+export function defectSums(d: Float64Array, lOld: Float64Array, lNew: Float64Array, h: number, roomOfCell: Int16Array, roomDef: Float64Array): void {
+  const n = d.length, hh = 0.5 * h
+  for (let p = 0; p < n; ) {
+    const room = roomOfCell[p]!
+    let end = p + 1
+    while (end < n && roomOfCell[end] === room) end++
+    let acc = 0
+    for (let i = p; i < end; i++) acc += Math.abs(d[i]! - hh * (lOld[i]! + lNew[i]!))
+    if (room >= 0) roomDef[room] += acc
+    p = end
+  }
+}
+
