@@ -34,8 +34,10 @@ export function formatValue(v: number, unit: DisplayUnit): string {
 
 export function formatTime(s: number | null): string {
   if (s === null || !Number.isFinite(s)) return 'not reached'
-  if (s < 60) return `${Math.round(s)} s`
-  const m = Math.floor(s / 60), r = Math.round(s % 60)
+  // Round once, then split: 119.6 s is "2 min", not "1 min 60 s".
+  const t = Math.round(s)
+  if (t < 60) return `${t} s`
+  const m = Math.floor(t / 60), r = t % 60
   return r ? `${m} min ${r} s` : `${m} min`
 }
 
