@@ -8,6 +8,7 @@ import { insertUser } from '../../server/repositories/users.repo'
 import { hashPassword } from '../../server/services/passwords'
 import { DEMO_ACCOUNTS } from '../../server/seed/demo-accounts'
 import { sql } from 'kysely'
+import { ENGINE_VERSION } from '../../shared/engine-version'
 import { fixtureFloor, fixtureSummary } from '../unit/plans-fixtures'
 import type { RunSummary } from '../../shared/schemas/runs'
 
@@ -70,6 +71,8 @@ export async function insertFinishedRun(rt: Runtime, r: { orgId: number; floorId
   })
   const meta = { nx, ny, cellM, originM: [0, 0], breathingHeightM: 1.5, timesS: [0, 600], limits, roomIds: ['A', 'B', 'C'] }
   await insertResultOnce(db, { runId: run.id, summary: r.summary, meta, series: { timesS: [], series: {} }, frames: Buffer.alloc(0), fronts: Buffer.from(fronts.buffer), peak: Buffer.alloc(0) })
+  // Computed "now": by the engine version in force, as the worker records it (an engine bump must not mark fixture plans).
+  await sql`update run_results set engine_version = ${ENGINE_VERSION} where run_id = ${run.id}`.execute(db)
   await sql`update runs set status = 'succeeded', finished_at = now(), progress = 1 where id = ${run.id}`.execute(db)
   return run
 }

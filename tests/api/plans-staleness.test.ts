@@ -150,7 +150,7 @@ describe('acknowledging again', () => {
     await officer.post(`/api/plans/${id}/publish`).send({}).expect(200)
     await waitForMail(rt.ctx.db, fx.manager2.email, /Please acknowledge: Re-acknowledged plan \(version 1\)/)
     const basis1 = (await rt.ctx.db.selectFrom('plan_versions').select('basis').where('plan_id', '=', id).where('version', '=', 1).executeTakeFirstOrThrow()).basis
-    expect(basis1).toMatchObject({ floorId: fx.floorId, floorVersion: 1, runs: [{ runId: fx.runId, engineVersion: 1, floorVersion: 1 }] })
+    expect(basis1).toMatchObject({ floorId: fx.floorId, floorVersion: 1, runs: [{ runId: fx.runId, engineVersion: ENGINE_VERSION, floorVersion: 1 }] })
 
     const plan = fixtureFloor()
     plan.rooms[0]!.ventilation = { mode: 'ach', airChangesPerHour: 5 }
