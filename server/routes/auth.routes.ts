@@ -6,6 +6,7 @@ import {
 } from '../../shared/schemas/auth'
 import { Ok } from '../../shared/schemas/common'
 import type { ApiRoutes } from '../http/define-route'
+import { HTTPS_REQUIRED, rotateCsrf } from '../http/csrf'
 import { AppError } from '../http/errors'
 import * as auth from '../services/auth.service'
 import type { ServiceContext } from '../services/context'
@@ -36,6 +37,15 @@ const client = (req: Request) => ipKeyGenerator(req.ip ?? '')
 const MIN15 = 15 * 60_000
 
 export function authRoutes(api: ApiRoutes, ctx: ServiceContext) {
+  /**
+   * COOKIE_SECURE=1 makes the session cookie HTTPS-only; a request that reached us over plain HTTP (a proxy that does
+   * not send X-Forwarded-Proto: https) would get 200 and no cookie, and the sign-in would silently not stick (issue 14).
+   */
+  const refuseInsecureCookie = (req: Request) => {
+    if (ctx.config.secureCookies && !req.secure) {
+      throw new AppError(400, 'https_required', HTTPS_REQUIRED)
+    }
+  }
   // Sign-in counts failures three ways: per account and client, per account from anywhere (a botnet spreading one
   // account's guesses), and per client over all accounts (one client trying many addresses).
   const n = ctx.config.loginRateLimit
@@ -52,10 +62,12 @@ export function authRoutes(api: ApiRoutes, ctx: ServiceContext) {
     ({ res }) => ({ csrfToken: res.locals.csrfToken as string }))
 
   api.add({ method: 'post', path: API.login, summary: 'Sign in', tag: 'auth', access: 'public', body: Credentials, response: SessionUser },
-    async ({ req, body }) => {
+    async ({ req, res, body }) => {
+      refuseInsecureCookie(req)
       const userId = await auth.checkCredentials(ctx, body.email, body.password)
       await regenerate(req) // a fresh session id at sign-in defeats session fixation
       req.session.userId = userId
+      rotateCsrf(req, res, ctx.config.secureCookies) // and a fresh CSRF token, bound to that session
       return auth.sessionUser(ctx, userId)
     })
 
@@ -87,10 +99,12 @@ export function authRoutes(api: ApiRoutes, ctx: ServiceContext) {
     })
 
   api.add({ method: 'post', path: API.acceptInvitation, summary: 'Accept an invitation and sign in', tag: 'auth', access: 'public', body: AcceptInvitation, response: SessionUser },
-    async ({ req, body }) => {
+    async ({ req, res, body }) => {
+      refuseInsecureCookie(req)
       const userId = await auth.acceptInvitation(ctx, body)
       await regenerate(req)
       req.session.userId = userId
+      rotateCsrf(req, res, ctx.config.secureCookies)
       return auth.sessionUser(ctx, userId)
     })
 }

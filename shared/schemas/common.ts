@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { passwordWeakness } from './password-strength'
 
 /** Roles within one organization, from most to least privileged. */
 export const ROLES = ['admin', 'ehs_officer', 'lab_manager', 'staff'] as const
@@ -48,3 +49,4 @@ export const Email = z.string().trim().toLowerCase().pipe(z.email('Not a valid e
 
 /** Passwords: long enough to resist guessing; argon2id takes care of storage. */
 export const NewPassword = z.string().min(10, 'At least 10 characters').max(200, 'At most 200 characters')
+  .superRefine((pw, ctx) => { const why = passwordWeakness(pw); if (why) ctx.addIssue({ code: 'custom', message: why }) })

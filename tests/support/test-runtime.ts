@@ -1,7 +1,8 @@
 import { inject } from 'vitest'
 import request from 'supertest'
 import type TestAgent from 'supertest/lib/agent'
-import { CSRF_HEADER } from '../../shared/api-paths'
+import { CookieAccessInfo } from 'cookiejar'
+import { CSRF_COOKIE, CSRF_HEADER } from '../../shared/api-paths'
 import { loadConfig, type Config } from '../../server/config'
 import { startRuntime, type Runtime } from '../../server/runtime'
 import { seedDemo } from '../../server/seed/demo'
@@ -46,15 +47,18 @@ export async function apiAgent(rt: Runtime) {
 
 export type ApiAgent = ReturnType<typeof withCsrf>
 
-function withCsrf(agent: TestAgent, token: string) {
+function withCsrf(agent: TestAgent, first: string) {
+  // The token rotates at sign-in (issue 14): send the one the cookie holds now, as the client does.
+  const jar = (agent as unknown as { jar: { getCookie(name: string, access: unknown): { value: string } | undefined } }).jar
+  const token = () => { const c = jar.getCookie(CSRF_COOKIE, CookieAccessInfo.All); return c ? decodeURIComponent(c.value) : first }
   return {
     raw: agent,
-    token,
+    get token() { return token() },
     get: (url: string) => agent.get(url),
-    post: (url: string) => agent.post(url).set(CSRF_HEADER, token),
-    put: (url: string) => agent.put(url).set(CSRF_HEADER, token),
-    patch: (url: string) => agent.patch(url).set(CSRF_HEADER, token),
-    delete: (url: string) => agent.delete(url).set(CSRF_HEADER, token),
+    post: (url: string) => agent.post(url).set(CSRF_HEADER, token()),
+    put: (url: string) => agent.put(url).set(CSRF_HEADER, token()),
+    patch: (url: string) => agent.patch(url).set(CSRF_HEADER, token()),
+    delete: (url: string) => agent.delete(url).set(CSRF_HEADER, token()),
   }
 }
 
