@@ -6,6 +6,7 @@
  *
  * 1: the engine as of 2 Dec 2026 (results stored before versions were recorded count as 1).
  * 2: issue 12: step control that sees advection, sinks and transfer air (trapezoidal defect), Crank-Nicolson on
- *    advective faces at Courant ≤ 1, smaller first steps after a puff.
+ *    advective faces at Courant ≤ 1, smaller first steps after a puff; sources spread trilinearly (not snapped)
+ *    and the further changes of that session listed in shared/engine/README.md.
  */
 export const ENGINE_VERSION = 2

@@ -37,7 +37,8 @@ export interface Model {
   /** Cleanroom returns (one per downflow room): floor outflow rate w/dz (s⁻¹), exhausted fraction, and
    * the room's top-layer and bottom-layer cells (same column order). */
   returns: { room: number; rate: number; exhaustFraction: number; topCells: Int32Array; bottomCells: Int32Array }[]
-  sources: { id: string; cell: number; history: ReleaseHistory }[]
+  /** Point sources spread trilinearly over the (up to 8) nearest cell centres of their room, weights summing to 1. */
+  sources: { id: string; cells: Int32Array; weights: Float64Array; history: ReleaseHistory }[]
   probes: { id: string; cells: Int32Array; weights: Float64Array }[]
   /** Breathing-height interpolation: lower layer, upper layer, weight of the upper layer. */
   bhK0: number; bhK1: number; bhW: number
@@ -223,21 +224,21 @@ export function buildModel(s: Scenario, gas: Gas): Model {
 
   const horizon = s.duration_s
   const orifice = { molarMass: gas.molar_mass_g_mol / 1000, gamma: gas.gamma }
-  const sources = s.sources.map((src, i) => ({ id: src.id, cell: cellOf(src.position_m, `sources[${i}].position_m`), history: releaseHistory(src.release, orifice, horizon) }))
-
-  // Probes: trilinear weights over the 8 surrounding cell centres, restricted to air cells of the
-  // probe's room and renormalised; outside the outermost centres the value is held constant.
-  const probes = s.probes.map((pr, pi) => {
-    const home = cellOf(pr.position_m, `probes[${pi}].position_m`)
+  // Trilinear weights over the 8 surrounding cell centres, restricted to air cells of the point's room
+  // and renormalised; outside the outermost centres the nearest centre's weight is kept. Probes read
+  // with them; sources are spread with them (the transpose: mass-conserving, and the field no longer
+  // depends on where the leak sits inside its cell by a jump at each cell edge).
+  const trilinear = (pos: readonly [number, number, number], field: string) => {
+    const home = cellOf(pos, field)
     const room = roomOfPlan[home % nPlan]!
     const axis = (v: number, n0: number, step: number) => {
       const f = Math.min(Math.max(v / step - 0.5, 0), n0 - 1)
       const a = Math.min(Math.floor(f), Math.max(n0 - 2, 0))
       return [a, f - a] as const
     }
-    const [ia, tx] = axis(pr.position_m[0] - x0, nx, h)
-    const [ja, ty] = axis(pr.position_m[1] - y0, ny, h)
-    const [ka, tz] = axis(pr.position_m[2], nz, dz)
+    const [ia, tx] = axis(pos[0] - x0, nx, h)
+    const [ja, ty] = axis(pos[1] - y0, ny, h)
+    const [ka, tz] = axis(pos[2], nz, dz)
     const cells: number[] = [], weights: number[] = []
     for (let c = 0; c < 8; c++) {
       const di = c & 1, dj = (c >> 1) & 1, dk = (c >> 2) & 1
@@ -247,9 +248,11 @@ export function buildModel(s: Scenario, gas: Gas): Model {
       cells.push(i + nx * j + nPlan * k); weights.push(wgt)
     }
     const wsum = weights.reduce((a, b) => a + b, 0)
-    if (cells.length === 0 || wsum < 1e-12) return { id: pr.id, cells: Int32Array.of(home), weights: Float64Array.of(1) }
-    return { id: pr.id, cells: Int32Array.from(cells), weights: Float64Array.from(weights, (w) => w / wsum) }
-  })
+    if (cells.length === 0 || wsum < 1e-12) return { cells: Int32Array.of(home), weights: Float64Array.of(1) }
+    return { cells: Int32Array.from(cells), weights: Float64Array.from(weights, (w) => w / wsum) }
+  }
+  const sources = s.sources.map((src, i) => ({ id: src.id, ...trilinear(src.position_m, `sources[${i}].position_m`), history: releaseHistory(src.release, orifice, horizon) }))
+  const probes = s.probes.map((pr, pi) => ({ id: pr.id, ...trilinear(pr.position_m, `probes[${pi}].position_m`) }))
 
   // Local exhausts: the flow is shared by the air cells of the exhaust's room within the capture radius.
   const exCells: number[] = [], exRates: number[] = []

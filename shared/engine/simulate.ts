@@ -163,9 +163,10 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   for (const src of m.sources) for (const b of src.history.breakpoints) if (b > 0 && b < duration) events.set(b, 'break')
   const breakList = Float64Array.from([...events.keys()].sort((a, b) => a - b))
   const isKink = Uint8Array.from(breakList, (b) => (events.get(b) === 'kink' ? 1 : 0))
-  const puffs = m.sources.flatMap((src) => src.history.puffs.filter((p) => p.t <= duration).map((p) => ({ cell: src.cell, t: p.t, v: p.volume })))
+  const puffs = m.sources.flatMap((src) => src.history.puffs.filter((p) => p.t <= duration).map((p) => ({ cells: src.cells, weights: src.weights, t: p.t, v: p.volume })))
   const puffDone = new Uint8Array(puffs.length)
   const released = new Float64Array(m.sources.length)
+  const sourceAdd = new Float64Array(m.sources.length)
   let releasedTotal = 0
   let removedVent = 0, removedExhaust = 0, removedDownflow = 0
 
@@ -174,7 +175,8 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     let added = false
     for (let q = 0; q < puffs.length; q++) {
       if (puffDone[q] || puffs[q]!.t > t + 1e-9) continue
-      c[puffs[q]!.cell] += puffs[q]!.v / vc
+      const pf = puffs[q]!
+      for (let a = 0; a < pf.cells.length; a++) c[pf.cells[a]!] += (pf.v * pf.weights[a]!) / vc
       releasedTotal += puffs[q]!.v
       puffDone[q] = 1
       added = true
@@ -282,7 +284,10 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
       const src = m.sources[q]!
       const v = src.history.cumulative(tNew)
       const add = v - released[q]!
-      if (add > 0) { target[src.cell] += add / vc; releasedTotal += add; released[q] = v }
+      if (add > 0) {
+        for (let a = 0; a < src.cells.length; a++) target[src.cells[a]!] += (add * src.weights[a]!) / vc
+        releasedTotal += add; released[q] = v
+      }
     }
     // What leaves through the floor comes back through the ceiling filters, less the exhausted
     // fraction, spread evenly over the room's top layer (explicit part of the delta form).
@@ -296,9 +301,12 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   // The same inputs in sparse form for the fused implicit kernel: entry e adds inAmount[inSlot[e]] to
   // cell inCell[e] (sources first, then the returns' top cells, as addInputs applies them), grouped by
   // x-row in CSR form (inRowStart) with the order inside each row kept.
-  const nSrc = m.sources.length
+  // One input slot per (source, cell) pair of the trilinear spread: entry e of source srcEntry[e].
+  const srcEntryCell: number[] = [], srcEntryWeight: number[] = [], srcEntryOf: number[] = []
+  m.sources.forEach((src, q) => src.cells.forEach((p, a) => { srcEntryCell.push(p); srcEntryWeight.push(src.weights[a]!); srcEntryOf.push(q) }))
+  const nSrc = srcEntryCell.length
   const inAmount = new Float64Array(nSrc + m.returns.length)
-  const inList: [number, number][] = m.sources.map((src, q) => [src.cell, q])
+  const inList: [number, number][] = srcEntryCell.map((p, e) => [p, e])
   m.returns.forEach((rt, q) => { for (const p of rt.topCells) inList.push([p, nSrc + q]) })
   const nRows = ny * nz
   const inRowStart = new Int32Array(nRows + 1)
@@ -311,12 +319,14 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   }
   /** addInputs for the fused kernel: the per-source and per-return amounts of this step. */
   const inputAmounts = (dt: number, tNew: number) => {
-    for (let q = 0; q < nSrc; q++) {
+    for (let e = 0; e < nSrc; e++) inAmount[e] = 0
+    for (let q = 0; q < m.sources.length; q++) {
       const src = m.sources[q]!
       const v = src.history.cumulative(tNew)
       const add = v - released[q]!
-      if (add > 0) { inAmount[q] = add / vc; releasedTotal += add; released[q] = v } else inAmount[q] = 0
+      if (add > 0) { sourceAdd[q] = add / vc; releasedTotal += add; released[q] = v } else sourceAdd[q] = 0
     }
+    for (let e = 0; e < nSrc; e++) inAmount[e] = sourceAdd[srcEntryOf[e]!]! * srcEntryWeight[e]!
     for (let q = 0; q < m.returns.length; q++) {
       const rt = m.returns[q]!
       const sum = runSum(c, bottomRuns[q]!)
@@ -365,9 +375,9 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     }
   }
   // Source cells (distinct) and, per source, its slot among them: their input is part of ΔC, not of L.
-  const srcCellList = [...new Set(m.sources.map((q) => q.cell))]
+  const srcCellList = [...new Set(srcEntryCell)]
   const srcCells = Int32Array.from(srcCellList)
-  const srcSlot = Int32Array.from(m.sources, (q) => srcCellList.indexOf(q.cell))
+  const srcSlot = Int32Array.from(srcEntryCell, (p) => srcCellList.indexOf(p))
   const srcIn = new Float64Array(srcCells.length)
   const roomDef = new Float64Array(m.roomIds.length)
   /** roomDef ← per-room trapezoidal defect of the step just taken (ΔC in d). */
