@@ -112,3 +112,7 @@ export const usersInOrg = (db: Db, orgId: number, ids: number[]) =>
   ids.length
     ? db.selectFrom('users').select(['id', 'role']).where('org_id', '=', orgId).where('id', 'in', ids).execute()
     : Promise.resolve([])
+
+/** Locks the floor row for a change of its own fields; answers its last-change time, to the millisecond the API shows. */
+export const lockFloorMeta = (db: Db, orgId: number, id: number) =>
+  db.selectFrom('floors').select(['id', 'updated_at']).where('id', '=', id).where('org_id', '=', orgId).forUpdate().executeTakeFirst()

@@ -13,7 +13,7 @@ import { appendAudit } from '../repositories/audit.repo'
 import { checkPlanSafely } from '../jobs/plan-checks-thread'
 import { floorChanged } from './staleness.service'
 import {
-  deleteFloor, findFloorInOrg, floorIdsOfUser, insertFloor, listFloorMembers, listFloors, replaceFloorMembers,
+  deleteFloor, findFloorInOrg, floorIdsOfUser, insertFloor, listFloorMembers, listFloors, lockFloorMeta, replaceFloorMembers,
   savePlanIfVersion, updateFloorMeta, usersInOrg,
 } from '../repositories/floors.repo'
 import type { ServiceContext } from './context'
@@ -111,12 +111,18 @@ export async function changeFloor(ctx: ServiceContext, actor: Actor, id: number,
   const row = await requireVisibleFloor(ctx.db, actor, id)
   await checkPeople(ctx.db, actor, patch.managerIds, patch.memberIds)
   const rechecked = patch.ceilingHeightM !== undefined ? await checkLarge(Plan.parse(row.plan), patch.ceilingHeightM) : {}
+  const { updatedAt: seen, ...fields } = patch
   await ctx.db.transaction().execute(async (trx) => {
+    // Optimistic check on the floor's own fields: the row is locked, so of two racing changes one answers 409.
+    const locked = await lockFloorMeta(trx, actor.orgId, id)
+    if (seen !== undefined && locked && new Date(locked.updated_at).getTime() !== Date.parse(seen)) {
+      throw conflict(`Someone changed this floor in the meantime (now ${new Date(locked.updated_at).toISOString()}, yours was ${seen}): reload it`, 'stale_version')
+    }
     await updateFloorMeta(trx, actor.orgId, id, { name: patch.name, ceilingHeightM: patch.ceilingHeightM, ...rechecked })
     if (patch.managerIds) await replaceFloorMembers(trx, id, 'manager', patch.managerIds)
     if (patch.memberIds) await replaceFloorMembers(trx, id, 'member', patch.memberIds)
     await appendAudit(trx, { orgId: actor.orgId, actorId: actor.id, action: 'floor.changed', targetType: 'floor', targetId: id,
-      detail: { fields: Object.keys(patch) } })
+      detail: { fields: Object.keys(fields) } })
   })
   if (patch.ceilingHeightM !== undefined) await floorChanged(ctx, actor, id, { plan: row.plan, ceilingM: row.ceiling_height_m }, { plan: row.plan, ceilingM: patch.ceilingHeightM }, row.version)
   return getFloor(ctx, actor, id)

@@ -62,6 +62,8 @@ export const FloorUpdate = z.object({
   ceilingHeightM: CeilingHeightM.optional(),
   managerIds: UserIdsPatch.optional(),
   memberIds: UserIdsPatch.optional(),
+  /** The floor's updatedAt as read: when given and someone changed the floor since, 409 stale_version (issue 14). */
+  updatedAt: z.iso.datetime({ offset: true, message: 'A date-time as the floor gave it (updatedAt)' }).optional(),
 })
 export type FloorUpdate = z.input<typeof FloorUpdate>
 

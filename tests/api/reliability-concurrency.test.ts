@@ -27,4 +27,22 @@ describe('racing writes', () => {
     expect(statuses.filter((s) => s !== 200 && s !== 409)).toEqual([])
     expect(statuses).toContain(200)
   })
+
+  it('two simultaneous PATCH /api/floors/:id from the same read: one wins, the other is 409 stale_version; without updatedAt it still saves', async () => {
+    const floor = (await officer.get(`/api/floors/${fx.floorId}`).expect(200)).body
+    const [a, b] = await Promise.all([
+      officer.patch(`/api/floors/${fx.floorId}`).send({ name: 'Level 1 (east wing)', updatedAt: floor.updatedAt }),
+      officer.patch(`/api/floors/${fx.floorId}`).send({ name: 'Level 1 (west wing)', updatedAt: floor.updatedAt }),
+    ])
+    expect([a.status, b.status].sort()).toEqual([200, 409])
+    const lost = a.status === 409 ? a : b
+    expect(lost.body.error.code).toBe('stale_version')
+    const now = (await officer.get(`/api/floors/${fx.floorId}`).expect(200)).body
+    expect(now.name).toBe((a.status === 200 ? a : b).body.name)
+    // A stale read later is refused too; a fresh one saves.
+    await officer.patch(`/api/floors/${fx.floorId}`).send({ ceilingHeightM: 3.2, updatedAt: floor.updatedAt }).expect(409)
+    await officer.patch(`/api/floors/${fx.floorId}`).send({ ceilingHeightM: 3.2, updatedAt: now.updatedAt }).expect(200)
+    await officer.patch(`/api/floors/${fx.floorId}`).send({ name: 'Level 1' }).expect(200)
+    await officer.patch(`/api/floors/${fx.floorId}`).send({ updatedAt: 'yesterday' }).expect(400)
+  })
 })
