@@ -1,6 +1,6 @@
 import { SavePlanResult } from '../../shared/schemas/floors'
 import { IdParam } from '../../shared/schemas/common'
-import { RunBundle } from '../../shared/schemas/bundles'
+import { BundleFrontsQuery, RunBundle } from '../../shared/schemas/bundles'
 import { EgressQuery, EgressResult } from '../../shared/schemas/egress'
 import { AdvisorAccept, AdvisorProposal, AdvisorRequest, RunDetail, RunList, RunSeries, SweepDetail, SweepInput } from '../../shared/schemas/runs'
 import type { ApiRoutes } from '../http/define-route'
@@ -28,6 +28,8 @@ export function runsRoutes(api: ApiRoutes, ctx: ServiceContext) {
     ({ actor, params, query }) => egress.getRunEgress(ctx, actor, params.id, query))
   api.add({ method: 'get', path: '/api/runs/:id/bundle', summary: "A run's sensitivity bundle (D ×0.3 and ×3, the named ventilation failure, nearby leak positions): each case's run, the earliest–latest band of every time to a limit with the case driving the earliest, and the cost against one run", tag: 'runs', access: 'signed-in', params: IdParam, response: RunBundle },
     ({ actor, params }) => bundles.getRunBundle(ctx, actor, params.id))
+  api.add({ method: 'get', path: '/api/runs/:id/bundle/fronts', summary: "Fronts of one limit over a run's bundle: Float32 planes nominal, earliest and latest first-crossing time (nx·ny each)", tag: 'runs', access: 'signed-in', params: IdParam, query: BundleFrontsQuery, responseContentType: 'application/octet-stream' },
+    ({ actor, params, query, res }) => bundles.sendBundleFronts(ctx, actor, params.id, query.limitKey, res))
   api.add({ method: 'post', path: '/api/runs/:id/cancel', summary: 'Cancel a queued or running run', tag: 'runs', access: OFFICERS, params: IdParam, response: RunDetail },
     ({ actor, params }) => runs.cancelRun(ctx, actor, params.id))
 

@@ -1,10 +1,12 @@
-import { bundleBand } from '../../shared/runs/bundle'
+import type { Response } from 'express'
+import { bundleBand, frontsBand } from '../../shared/runs/bundle'
 import type { RunBundle } from '../../shared/schemas/bundles'
-import { RunSummary } from '../../shared/schemas/runs'
+import { RunFieldsMeta, RunSummary } from '../../shared/schemas/runs'
 import { SCREENING_CAUTION } from '../../shared/ui/cautions'
 import type { Actor } from '../http/session-user'
 import { bundleMembers, nominalOf, runTiming } from '../repositories/bundles.repo'
-import { findResultMeta } from '../repositories/runs.repo'
+import { AppError } from '../http/errors'
+import { findResultFronts, findResultMeta } from '../repositories/runs.repo'
 import type { ServiceContext } from './context'
 import { requireRun } from './runs.service'
 
@@ -52,4 +54,36 @@ export async function getRunBundle(ctx: ServiceContext, actor: Actor, id: number
     cost: { runs: n, computeS, nominalS, text: costText }, notes,
     caution: `Each case is a screening estimate; the band shows how much the answer depends on the inputs least known, not a bound on reality. ${SCREENING_CAUTION.summary}`,
   }
+}
+
+/**
+ * The fronts of a bundle for one limit as three Float32 planes (nx·ny each): the nominal, the earliest and the latest
+ * first-crossing time over the finished cases. Every case shares the nominal's grid (only D, ventilation or the leak
+ * position differ), so the planes line up cell for cell.
+ */
+export async function sendBundleFronts(ctx: ServiceContext, actor: Actor, id: number, limitKey: string, res: Response) {
+  await requireRun(ctx, actor, id)
+  const nominalId = (await nominalOf(ctx.db, actor.orgId, id))?.nominal_run_id ?? id
+  const members = await bundleMembers(ctx.db, actor.orgId, nominalId)
+  const ids = [nominalId, ...members.filter((m) => m.status === 'succeeded').map((m) => m.run_id)]
+  const rows = await findResultFronts(ctx.db, ids)
+  const nominal = rows.find((r) => r.run_id === nominalId)
+  if (!nominal) throw new AppError(409, 'not_ready', 'This run has no result yet')
+  const meta = RunFieldsMeta.parse(nominal.meta)
+  const k = meta.limits.findIndex((l) => l.key === limitKey)
+  if (k < 0) throw new AppError(400, 'validation_failed', 'Some fields are not valid: limitKey', { limitKey: 'Not one of the limits of this run' })
+  const nPlan = meta.nx * meta.ny
+  const planeOf = (r: (typeof rows)[number]) => {
+    const m = RunFieldsMeta.parse(r.meta)
+    const j = m.limits.findIndex((l) => l.key === limitKey)
+    if (m.nx !== meta.nx || m.ny !== meta.ny || j < 0) return null
+    const buf = r.fronts as Buffer
+    return new Float32Array(buf.buffer.slice(buf.byteOffset + j * nPlan * 4, buf.byteOffset + (j + 1) * nPlan * 4))
+  }
+  const planes = rows.map(planeOf).filter((p): p is Float32Array => p !== null)
+  const { earliest, latest } = frontsBand(planes)
+  const body = Buffer.concat([planeOf(nominal)!, earliest, latest].map((a) => Buffer.from(a.buffer, a.byteOffset, a.byteLength)))
+  res.setHeader('content-type', 'application/octet-stream')
+  res.setHeader('x-cases', String(planes.length))
+  res.status(200).end(body)
 }

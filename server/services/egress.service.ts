@@ -1,6 +1,7 @@
-import { computeEgress, type EgressOptions } from '../../shared/egress/compute'
+import { computeEgress, criticalLimitOf, type EgressOptions } from '../../shared/egress/compute'
 import { Plan } from '../../shared/floorplan/plan-schema'
 import type { EgressQuery, EgressResult } from '../../shared/schemas/egress'
+import { SCREENING_CAUTION } from '../../shared/ui/cautions'
 import { RunFieldsMeta, RunSummary } from '../../shared/schemas/runs'
 import { AppError } from '../http/errors'
 import type { Actor } from '../http/session-user'
@@ -30,6 +31,19 @@ export async function egressOfRun(ctx: ServiceContext, runId: number, plan: Plan
   return computeEgress({ runId, plan, summary, field: input.field })
 }
 
+/** The answer for a result without stored snapshots: no routes, and why, never a guess. */
+function noFieldsEgress(runId: number, plan: Plan, summary: RunSummary): EgressResult {
+  const c = criticalLimitOf(summary)
+  return {
+    runId, speedMS: 0, speedBasis: 'not used', startS: 0, startBasis: 'not used', criticalLimit: c ? { key: c.key, label: c.label, ppm: c.ppm } : null,
+    exitIds: plan.openings.filter((o) => o.kind === 'door' && o.exit).map((o) => o.id),
+    assemblyPoints: (plan.assemblyPoints ?? []).map((a) => ({ id: a.id, name: a.name, position: [a.position[0], a.position[1]] as [number, number] })),
+    routes: [], limits: [], roomsReachingCriticalIds: [],
+    notes: ['This result was stored without its concentration snapshots, so no route can be walked through it: re-run the scenario to get the ways out.'],
+    caution: `Planning advice for drills, not live guidance during an incident. ${SCREENING_CAUTION.summary}`,
+  }
+}
+
 /** Egress routes of one run over the floor as drawn now (exits may be marked after the run). */
 export async function getRunEgress(ctx: ServiceContext, actor: Actor, id: number, query: EgressQuery): Promise<EgressResult> {
   const run = await requireRun(ctx, actor, id)
@@ -38,7 +52,13 @@ export async function getRunEgress(ctx: ServiceContext, actor: Actor, id: number
   const plan = Plan.safeParse(floor.plan)
   if (!plan.success) throw new AppError(409, 'floor_unreadable', 'The floor plan of this run cannot be read')
   const input = await egressInput(ctx, id)
-  if (!input) throw new AppError(409, 'not_ready', 'This run has no stored fields to walk through')
+  if (!input) {
+    // A finished result stored without snapshots (an imported or older result): nothing to walk through, said plainly.
+    const meta = await findResultMeta(ctx.db, id)
+    const summary = meta ? RunSummary.safeParse(meta.summary) : null
+    if (!summary?.success) throw new AppError(409, 'not_ready', 'This run has no stored fields to walk through')
+    return noFieldsEgress(id, plan.data, summary.data)
+  }
   if (query.limitKey && !input.summary.limits.some((l) => l.key === query.limitKey)) {
     throw new AppError(400, 'validation_failed', 'Some fields are not valid: limitKey', { limitKey: 'Not one of the limits of this run' })
   }

@@ -157,3 +157,21 @@ export function conservativeCase<T extends { key: string; summary: RunSummary }>
     return x[0] - y[0] || x[1] - y[1] || x[2] - y[2]
   })[0]!
 }
+
+/**
+ * The fronts map over a bundle: per cell, the earliest and the latest first-crossing time over the cases' planes
+ * (Infinity = never within the run, so "latest" is Infinity when some case never reaches the cell; NaN = not air).
+ */
+export function frontsBand(planes: Float32Array[]): { earliest: Float32Array; latest: Float32Array } {
+  const n = planes[0]?.length ?? 0
+  const earliest = new Float32Array(n).fill(Infinity), latest = new Float32Array(n).fill(-Infinity)
+  for (const p of planes) {
+    for (let i = 0; i < n; i++) {
+      const v = p[i]!
+      if (Number.isNaN(v)) { earliest[i] = NaN; latest[i] = NaN; continue }
+      if (v < earliest[i]!) earliest[i] = v
+      if (v > latest[i]!) latest[i] = v
+    }
+  }
+  return { earliest, latest }
+}

@@ -38,4 +38,10 @@ export const RunBundle = z.object({
 })
 export type RunBundle = z.infer<typeof RunBundle>
 
-export const BUNDLE_API = { runBundle: (id: number) => `/api/runs/${id}/bundle` } as const
+/** GET /api/runs/:id/bundle/fronts: which limit's fronts. */
+export const BundleFrontsQuery = z.object({ limitKey: z.string().trim().min(1, 'Required').max(64) })
+
+export const BUNDLE_API = {
+  runBundle: (id: number) => `/api/runs/${id}/bundle`,
+  bundleFronts: (id: number) => `/api/runs/${id}/bundle/fronts`,
+} as const

@@ -106,6 +106,31 @@ describe('sensitivity bundles', () => {
     // Enough times were reached for the check to mean something, and the cases do differ.
     expect(checked).toBeGreaterThanOrEqual(5)
     expect(b.band.some((r) => r.earliestS !== null && r.latestS !== null && r.latestS > r.earliestS)).toBe(true)
+    // The fronts map's band: cell by cell the earliest and latest over the cases' own stored fronts.
+    const bin = (r: import('supertest').Response) => new Float32Array(new Uint8Array(r.body).buffer)
+    const getBin = (url: string) => officer.get(url).buffer(true).parse((res, cb) => {
+      const chunks: Buffer[] = []
+      res.on('data', (x: Buffer) => chunks.push(x)).on('end', () => cb(null, Buffer.concat(chunks)))
+    })
+    const band3 = bin(await getBin(`/api/runs/${nominalId}/bundle/fronts?limitKey=idlh`).expect(200))
+    const metaOf = async (id: number) => RunDetail.parse((await officer.get(`/api/runs/${id}`).expect(200)).body).meta!
+    const meta = await metaOf(nominalId)
+    const nPlan = meta.nx * meta.ny
+    const k = meta.limits.findIndex((l) => l.key === 'idlh')
+    const casePlanes = await Promise.all(b.cases.map(async (c) => bin(await getBin(`/api/runs/${c.runId}/fields`).expect(200)).slice((meta.timesS.length + k) * nPlan, (meta.timesS.length + k + 1) * nPlan)))
+    expect(band3.length).toBe(3 * nPlan)
+    let differ = 0
+    for (let i = 0; i < nPlan; i++) {
+      const vs = casePlanes.map((p) => p[i]!)
+      if (vs.some(Number.isNaN)) { expect(band3[nPlan + i]).toBeNaN(); continue }
+      expect(band3[i]).toBe(casePlanes[0]![i])
+      expect(band3[nPlan + i]).toBe(Math.fround(Math.min(...vs)))
+      expect(band3[2 * nPlan + i]).toBe(Math.fround(Math.max(...vs)))
+      if (band3[2 * nPlan + i]! > band3[nPlan + i]!) differ++
+    }
+    expect(differ).toBeGreaterThan(0)
+    const badKey = await officer.get(`/api/runs/${nominalId}/bundle/fronts?limitKey=nope`).expect(400)
+    expect(badKey.body.error.fields).toHaveProperty('limitKey')
     for (const p of b.peaks) {
       const peaks = sums.map((x) => x.s.receptors.find((r) => r.id === p.id)!.peakPpm)
       expect(p.highPpm).toBe(Math.max(...peaks))
