@@ -16,11 +16,13 @@ import { rhsRange } from './operator'
  *
  * Inputs are sparse: entry e adds amount[entryAmount[e]] to cell entryCell[e]; entries are grouped by
  * x-row (row = cell / nx) in CSR form rowStart (length ny·nz + 1), in the order addInputs applies them.
+ * `extra` (s⁻¹ per cell, optional) is added as dt·extra: explicit deferred corrections.
  */
 export function fusedRhsSolveXY(
   m: Model, c: Float64Array, out: Float64Array, r: Float64Array, dt: number,
   fx: SweepFactor, fy: SweepFactor,
   rowStart: Int32Array, entryCell: Int32Array, entryAmount: Int32Array, amount: Float64Array,
+  extra: Float64Array | null = null,
 ): void {
   const { nx, ny, nz } = m
   const nPlan = nx * ny
@@ -35,6 +37,8 @@ export function fusedRhsSolveXY(
       const base = row * nx
       rhsRange(m, c, out, r, dt, base, base + rows * nx, interiorLayer)
       for (let e = rowStart[row]!, e1 = rowStart[row + rows]!; e < e1; e++) r[entryCell[e]!] += amount[entryAmount[e]!]!
+      // Deferred-correction terms (rate per cell, e.g. the TVD downflow correction), explicit.
+      if (extra !== null) for (let p = base, pe = base + rows * nx; p < pe; p++) r[p] += dt * extra[p]!
       solveLinesAlong(r, fx, base, rows)
       j += rows
     }

@@ -5,6 +5,7 @@ import { FACTOR_CACHE_LEVELS, factorSweep, solveFactored, type SweepFactor } fro
 import { fusedRhsSolveXY } from './fused-step'
 import { accountSinks, addColumnMultiple, cellRuns, defectSums, finishStep, runDot, runSum, scaleField, snapshotPlan, type RateWeights, type RoomSums } from './step-kernels'
 import { buildModel, type Model } from './model'
+import { addDownflowCorrection, downflowColumns } from './tvd'
 import type { Scenario } from './scenario-schema'
 import { thresholdsFor, type Threshold } from './thresholds'
 import { validateScenario, type ValidScenario } from './validate'
@@ -361,6 +362,16 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     }
     return { z, v, denom: 1 - vz }
   }
+  // TVD correction of the downflow (tvd.ts), by deferred correction: a rate field over the downflow
+  // columns, recomputed from the current state before each step.
+  const tvdCols = downflowColumns(m, Float64Array.from(s.rooms, (r) => r.ventilation.downflow?.speed_m_s ?? 0))
+  const tvdField = tvdCols.plan.length > 0 ? new Float64Array(n) : null
+  const downflowCorrection = (): Float64Array | null => {
+    if (tvdField === null) return null
+    for (let a = 0; a < tvdCols.plan.length; a++) for (let k = 0; k < nz; k++) tvdField[tvdCols.plan[a]! + nPlan * k] = 0
+    addDownflowCorrection(c, tvdCols, nPlan, nz, tvdField, 1)
+    return tvdField
+  }
   const returnFactors = new Map<SweepFactor[], { z: Float64Array; v: Float64Array; denom: number }[]>()
   // The source-free operator L c = −(A + K)c + U c at the start and the end of the step, for the
   // trapezoidal defect of the step control (defectSums). One operator pass per step.
@@ -368,6 +379,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   let lNew = explicit ? new Float64Array(0) : new Float64Array(n)
   const evalL = (target: Float64Array) => {
     applyOperator(m, c, out, target, 1)
+    if (tvdCols.plan.length > 0) addDownflowCorrection(c, tvdCols, nPlan, nz, target, 1)
     for (let q = 0; q < m.returns.length; q++) {
       const rt = m.returns[q]!
       const add = ((1 - rt.exhaustFraction) * rt.rate * runSum(c, bottomRuns[q]!)) / rt.bottomCells.length
@@ -451,10 +463,12 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
   }
 
   const transport = (dt: number, tNew: number, level: number) => {
+    const extra = downflowCorrection()
     if (explicit) {
       account(c, null, dt)
       applyOperator(m, c, out, rhs, dt)
       addInputs(rhs, dt, tNew)
+      if (extra !== null) for (let p = 0; p < n; p++) rhs[p] += dt * extra[p]!
       return
     }
     // Delta-form approximate factorisation (Douglas):
@@ -466,7 +480,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     // applyOperator + addInputs + solveFactored ×2), then the z solve over all columns.
     inputAmounts(dt, tNew)
     const f = factorsFor(dt, level)
-    fusedRhsSolveXY(m, c, out, rhs, dt, f[0]!, f[1]!, inRowStart, inCell, inSlot, inAmount)
+    fusedRhsSolveXY(m, c, out, rhs, dt, f[0]!, f[1]!, inRowStart, inCell, inSlot, inAmount, extra)
     solveFactored(rhs, f[2]!)
     // Sherman-Morrison for the rank-one return coupling of each cleanroom (bottom layer -> top layer).
     const corr = returnFactors.get(f)!
