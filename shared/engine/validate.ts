@@ -100,6 +100,9 @@ export function validateScenario(input: unknown): ValidScenario {
       if (!rooms.some((r) => r.id === o.transfer!.into)) throw new ScenarioError(`openings[${i}].transfer.into`, `unknown room "${o.transfer.into}"`)
       if (!onRooms.includes(o.transfer.into)) throw new ScenarioError(`openings[${i}].transfer.into`, `room "${o.transfer.into}" is not on either side of the opening`)
       if (onRooms.length < 2) throw new ScenarioError(`openings[${i}].transfer`, 'opening is on an outside wall; transfer air needs a room on each side')
+      if (!o.open && !(o.undercut_m && o.undercut_m > 0) && o.transfer.flow_m3_s > 0) {
+        throw new ScenarioError(`openings[${i}].transfer`, 'the door is closed and has no undercut_m, so transfer air has no path; open the door or give the gap under it')
+      }
     }
   })
 
@@ -118,6 +121,13 @@ export function validateScenario(input: unknown): ValidScenario {
       for (let k = 1; k < r.points.length; k++) {
         if (r.points[k]![0] <= r.points[k - 1]![0]) throw new ScenarioError(`sources[${i}].release.points[${k}]`, 'times must increase strictly')
       }
+    }
+    if (r.kind === 'cylinder' && r.liquefied) {
+      const pv = r.liquefied.vapour_pressure_pa
+      // A liquefied gas sits at its vapour pressure: a cylinder pressure below it is not a state the
+      // contents can be in (1 % slack for rounded data-sheet values).
+      if (pv > 1.01 * r.pressure_pa) throw new ScenarioError(`sources[${i}].release.liquefied.vapour_pressure_pa`, `${pv} Pa exceeds the cylinder pressure_pa ${r.pressure_pa} Pa; a liquefied gas is at its vapour pressure (pressures are absolute)`)
+      if (pv <= r.ambient_pressure_pa) throw new ScenarioError(`sources[${i}].release.liquefied.vapour_pressure_pa`, `${pv} Pa is not above ambient ${r.ambient_pressure_pa} Pa, so nothing would leak (pressures are absolute)`)
     }
     if (r.kind === 'cylinder' && r.pressure_pa <= r.ambient_pressure_pa && !r.liquefied) {
       throw new ScenarioError(`sources[${i}].release.pressure_pa`, `${r.pressure_pa} Pa is not above ambient ${r.ambient_pressure_pa} Pa (pressures are absolute)`)

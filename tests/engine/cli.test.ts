@@ -41,6 +41,18 @@ describe('simulate CLI', () => {
     expect(lines).toHaveLength(1)
     expect(lines[0]).toMatch(/^sources\[0\]\.release\.rate_m3_s: /)
   }, 60_000)
+  it('refuses an impossible input (transfer air through a closed door with no undercut): exit 2, one line, no stdout', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'dw-cli-'))
+    const bad = join(dir, 'closed.json')
+    const s = JSON.parse(readFileSync(fixture('format-example.json'), 'utf8'))
+    s.openings[0].open = false
+    s.openings[0].transfer = { flow_m3_s: 0.05, into: 'corridor' }
+    writeFileSync(bad, JSON.stringify(s))
+    const r = cli(bad)
+    expect(r.status).toBe(2)
+    expect(r.stdout).toBe('')
+    expect(r.stderr.trim().split('\n')).toEqual(['openings[0].transfer: the door is closed and has no undercut_m, so transfer air has no path; open the door or give the gap under it'])
+  }, 60_000)
   it('rejects unreadable JSON', () => {
     const dir = mkdtempSync(join(tmpdir(), 'dw-cli-'))
     const bad = join(dir, 'bad.json')

@@ -39,8 +39,16 @@ describe('scenario validation', () => {
     ['probe outside', (s: any) => { s.probes[0].position_m = [-1, 1, 1] }, 'probes[0].position_m: (-1, 1) is outside every room'],
     ['output interval longer than the run', (s: any) => { s.output_interval_s = 120 }, 'output_interval_s: 120 s exceeds duration_s 60 s'],
     ['transfer into a room not beside the door', (s: any) => { s.rooms.push({ id: 'far', polygon_m: rect(10, 0, 12, 2) }); s.openings[0].transfer = { flow_m3_s: 0.1, into: 'far' } }, 'openings[0].transfer.into: room "far" is not on either side of the opening'],
+    // Issue 12: inputs that used to run silently although they describe an impossible state.
+    ['transfer air through a closed door without an undercut', (s: any) => { s.openings[0].open = false; s.openings[0].transfer = { flow_m3_s: 0.05, into: 'hall' } }, 'openings[0].transfer: the door is closed and has no undercut_m'],
+    ['liquefied gas above its cylinder pressure', (s: any) => { s.sources[0].release = { kind: 'cylinder', water_volume_m3: 0.05, pressure_pa: 860000, orifice_diameter_m: 5e-4, liquefied: { vapour_pressure_pa: 860000, contents_kg: 20 } }; s.sources[0].release.liquefied.vapour_pressure_pa = 2e6 }, 'sources[0].release.liquefied.vapour_pressure_pa: 2000000 Pa exceeds the cylinder pressure_pa 860000 Pa'],
+    ['liquefied gas at or below ambient pressure', (s: any) => { s.sources[0].release = { kind: 'cylinder', water_volume_m3: 0.05, pressure_pa: 860000, orifice_diameter_m: 5e-4, liquefied: { vapour_pressure_pa: 860000, contents_kg: 20 } }; s.sources[0].release.pressure_pa = 9e4; s.sources[0].release.liquefied.vapour_pressure_pa = 9e4 }, 'sources[0].release.liquefied.vapour_pressure_pa: 90000 Pa is not above ambient'],
   ])('%s', (_name, mutate, expected) => {
     expect(message(mutate as (s: Record<string, any>) => void).startsWith(expected as string)).toBe(true)
+  })
+  it('a closed door with an undercut may carry transfer air, and an open door without one', () => {
+    expect(message((s) => { s.openings[0].open = false; s.openings[0].undercut_m = 0.01; s.openings[0].transfer = { flow_m3_s: 0.05, into: 'hall' } })).toBe('no error')
+    expect(message((s) => { s.openings[0].transfer = { flow_m3_s: 0.05, into: 'hall' } })).toBe('no error')
   })
   it('a room too small for the grid', () => {
     const s = good()
