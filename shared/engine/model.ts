@@ -48,6 +48,16 @@ export interface Model {
 }
 
 const EPS = 1e-9
+/**
+ * Diffusion length through a door undercut, m: the gap's conductance is D·(gap area)/UNDERCUT_LENGTH_M
+ * whatever the cell size (it was D·area/h, so the exchange scaled as 1/h). 0.2 m: the engine's usual
+ * cell size, so 0.2 m grids keep their numbers; a door leaf plus the approach on either side (modelling
+ * choice, not a measured value).
+ */
+export const UNDERCUT_LENGTH_M = 0.2
+/** Default capture radius of a local exhaust, m (at least 0.75 × the larger cell dimension), so the
+ * captured volume, and with it the removal, does not change with the grid (modelling choice). */
+export const DEFAULT_CAPTURE_RADIUS_M = 0.3
 
 /** Fraction of the face covered by segment a–b. The face is normal to `axis` (0: x, 1: y) at coordinate `f`,
  * spans [s0, s0 + h] along the other axis; the segment must lie within the slab between the two cell centres. */
@@ -126,7 +136,7 @@ export function buildModel(s: Scenario, gas: Gas): Model {
       const frac = coveredFraction(o.segment_m[0], o.segment_m[1], axis, f, s0, h)
       if (frac <= 0) continue
       if (o.open) open[p] = Math.min(1, open[p]! + frac)
-      else if (o.undercut_m) leak[p] = Math.min(1, leak[p]! + frac * Math.min(1, o.undercut_m / dz))
+      else if (o.undercut_m) leak[p] = Math.min(1, leak[p]! + frac * Math.min(1, (o.undercut_m / dz) * (h / UNDERCUT_LENGTH_M)))
     }
   })
   // Transfer air: each opening's flow is shared among its faces in proportion to covered length.
@@ -254,24 +264,33 @@ export function buildModel(s: Scenario, gas: Gas): Model {
   const sources = s.sources.map((src, i) => ({ id: src.id, ...trilinear(src.position_m, `sources[${i}].position_m`), history: releaseHistory(src.release, orifice, horizon) }))
   const probes = s.probes.map((pr, pi) => ({ id: pr.id, ...trilinear(pr.position_m, `probes[${pi}].position_m`) }))
 
-  // Local exhausts: the flow is shared by the air cells of the exhaust's room within the capture radius.
+  // Local exhausts: the flow is shared by the air cells of the exhaust's room in proportion to the part
+  // of each cell inside the capture sphere (4×4×4 sample points per cell), so the removal converges
+  // under refinement instead of jumping with the number of cells whose centre falls inside.
   const exCells: number[] = [], exRates: number[] = []
   for (const [ei, ex] of s.local_exhausts.entries()) {
     const home = cellOf(ex.position_m, `local_exhausts[${ei}].position_m`)
     const room = roomOfPlan[home % nPlan]!
-    const rad = ex.capture_radius_m ?? 0.75 * Math.max(h, dz)
-    const list: number[] = []
+    const rad = ex.capture_radius_m ?? Math.max(DEFAULT_CAPTURE_RADIUS_M, 0.75 * Math.max(h, dz))
+    const list: number[] = [], share: number[] = []
     // Only the cells within the capture sphere's bounding box can qualify.
     const ia = Math.max(0, Math.floor((ex.position_m[0] - rad - x0) / h)), ib = Math.min(nx - 1, Math.ceil((ex.position_m[0] + rad - x0) / h))
     const ja = Math.max(0, Math.floor((ex.position_m[1] - rad - y0) / h)), jb = Math.min(ny - 1, Math.ceil((ex.position_m[1] + rad - y0) / h))
     const ka = Math.max(0, Math.floor((ex.position_m[2] - rad) / dz)), kb = Math.min(nz - 1, Math.ceil((ex.position_m[2] + rad) / dz))
     for (let k = ka; k <= kb; k++) for (let j = ja; j <= jb; j++) for (let i = ia; i <= ib; i++) {
       if (roomOfPlan[i + nx * j] !== room) continue
-      const d2 = (x0 + (i + 0.5) * h - ex.position_m[0]) ** 2 + (y0 + (j + 0.5) * h - ex.position_m[1]) ** 2 + ((k + 0.5) * dz - ex.position_m[2]) ** 2
-      if (d2 <= rad * rad) list.push(i + nx * j + nPlan * k)
+      let inside = 0
+      for (let a = 0; a < 64; a++) {
+        const sx = x0 + (i + ((a & 3) + 0.5) / 4) * h - ex.position_m[0]
+        const sy = y0 + (j + (((a >> 2) & 3) + 0.5) / 4) * h - ex.position_m[1]
+        const sz = (k + ((a >> 4) + 0.5) / 4) * dz - ex.position_m[2]
+        if (sx * sx + sy * sy + sz * sz <= rad * rad) inside++
+      }
+      if (inside > 0) { list.push(i + nx * j + nPlan * k); share.push(inside) }
     }
-    if (list.length === 0) list.push(home)
-    for (const c of list) { exCells.push(c); exRates.push(ex.flow_m3_s / (list.length * cellVolume)) }
+    if (list.length === 0) { list.push(home); share.push(1) }
+    const total = share.reduce((a, b) => a + b, 0)
+    list.forEach((c, a) => { exCells.push(c); exRates.push((ex.flow_m3_s * share[a]!) / (total * cellVolume)) })
   }
 
   const kf = Math.min(Math.max(s.breathing_height_m / dz - 0.5, 0), nz - 1)
