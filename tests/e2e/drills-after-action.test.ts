@@ -14,6 +14,7 @@ describe('after-action record keeps what was typed', () => {
   let server: Awaited<ReturnType<typeof startTestServer>>
   let browser: Browser
   let drillId: number
+  let siteName: string
   let officer: Awaited<ReturnType<typeof apiSignIn>>
   const realNow = drillClock.now
 
@@ -21,6 +22,7 @@ describe('after-action record keeps what was typed', () => {
     server = await startTestServer()
     browser = await launchBrowser()
     const fx = await planFixture(server.rt)
+    siteName = (await server.rt.ctx.db.selectFrom('sites').select('name').where('org_id', '=', fx.orgId).orderBy('id', 'desc').executeTakeFirstOrThrow()).name
     officer = await apiSignIn(server.rt, acct('ehs_officer').email, acct('ehs_officer').password)
     const planId = (await officer.post('/api/plans').send({ floorId: fx.floorId, runIds: [fx.runId], title: 'After-action plan' }).expect(201)).body.id
     await officer.post(`/api/plans/${planId}/publish`).send({}).expect(200)
@@ -108,6 +110,21 @@ describe('after-action record keeps what was typed', () => {
     expect(await page.getByTestId('drill-record-restored').count()).toBe(0)
     expect(await page.getByLabel('Step 2 time in seconds').inputValue()).toBe('48')
     expect(problems).toEqual([])
+    await ctx.close()
+  })
+
+  // Issue 15.8: one floor drilled does not make the site "On schedule" while its other floor never was.
+  it('the site card counts the floors never drilled instead of saying "On schedule"', async () => {
+    const ctx = await browser.newContext({ viewport: LAPTOP })
+    const page = await ctx.newPage()
+    await page.goto(`${server.url}/drills`)
+    await signIn(page, acct('ehs_officer').email, acct('ehs_officer').password)
+    const card = page.getByTestId('drill-sites').locator('.q-card').filter({ hasText: siteName })
+    await expect.poll(() => card.textContent()).toMatch(/1 of 2 floors never drilled/)
+    expect(await card.textContent()).not.toContain('On schedule')
+    expect(await card.textContent()).toMatch(/Level 2 [^:]*: never drilled/)
+    await card.scrollIntoViewIfNeeded()
+    await shot(page, 'drills-site-undrilled-1366')
     await ctx.close()
   })
 })
