@@ -117,3 +117,11 @@ export const publisherOfVersion = (db: Db, orgId: number, versionId: number) =>
     .select(['users.id', 'users.name', 'users.email'])
     .where('plan_versions.id', '=', versionId).where('plan_versions.org_id', '=', orgId).where('users.status', '=', 'active')
     .executeTakeFirst()
+
+/** Locks the plan row so draft saves of one plan run one at a time (the version check then sees the latest save). */
+export const lockPlan = (db: Db, id: number) =>
+  db.selectFrom('plans').select('id').where('id', '=', id).forUpdate().executeTakeFirst()
+
+/** Who saved a version last (for the 409 message). */
+export const nameOfUser = async (db: Db, id: number | null) =>
+  id === null ? null : ((await db.selectFrom('users').select('name').where('id', '=', id).executeTakeFirst())?.name ?? null)

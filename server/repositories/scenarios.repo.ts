@@ -21,3 +21,7 @@ export const updateScenario = (db: Db, orgId: number, id: number, s: { name: str
 
 export const deleteScenario = (db: Db, orgId: number, id: number) =>
   db.deleteFrom('scenarios').where('org_id', '=', orgId).where('id', '=', id).executeTakeFirst()
+
+/** Locks the scenario row for a change; answers who saved it last and when (to the millisecond the API shows). */
+export const lockScenario = (db: Db, orgId: number, id: number) =>
+  db.selectFrom('scenarios').select(['id', 'name', 'config', 'updated_at']).where('org_id', '=', orgId).where('id', '=', id).forUpdate().executeTakeFirst()

@@ -27,8 +27,8 @@ export function plansRoutes(api: ApiRoutes, ctx: ServiceContext) {
   api.add({ method: 'get', path: '/api/plans/:id', summary: 'A plan: current version, versions, lab managers and acknowledgments', tag: 'plans', access: READERS, params: IdParam, response: PlanDetail },
     ({ actor, params }) => plans.getPlan(ctx, actor, params.id))
 
-  api.add({ method: 'put', path: '/api/plans/:id/draft', summary: 'Save the draft (after a publish, this starts the draft of the next version)', tag: 'plans', access: OFFICERS, params: IdParam, body: SaveDraft, response: PlanDetail },
-    ({ actor, params, body }) => plans.saveDraft(ctx, actor, params.id, body.content))
+  api.add({ method: 'put', path: '/api/plans/:id/draft', summary: 'Save the draft (after a publish, this starts the draft of the next version; with updatedAt, 409 stale_version when changed since)', tag: 'plans', access: OFFICERS, params: IdParam, body: SaveDraft, response: PlanDetail },
+    ({ actor, params, body }) => plans.saveDraft(ctx, actor, params.id, body.content, body.updatedAt))
 
   api.add({ method: 'post', path: '/api/plans/:id/refresh', summary: "Rebuild the rule-derived content from newer results of the floor into the draft, keeping officers' own text", tag: 'plans', access: OFFICERS, params: IdParam, body: RefreshPlan, response: PlanDetail },
     ({ actor, params, body }) => plans.refreshPlan(ctx, actor, params.id, body.runIds))

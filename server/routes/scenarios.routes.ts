@@ -1,5 +1,5 @@
 import { IdParam } from '../../shared/schemas/common'
-import { RunDetail, ScenarioConfig, ScenarioList, ScenarioRecord } from '../../shared/schemas/runs'
+import { RunDetail, ScenarioChange, ScenarioConfig, ScenarioList, ScenarioRecord } from '../../shared/schemas/runs'
 import type { ApiRoutes } from '../http/define-route'
 import type { ServiceContext } from '../services/context'
 import * as runs from '../services/runs.service'
@@ -14,7 +14,7 @@ export function scenariosRoutes(api: ApiRoutes, ctx: ServiceContext) {
     ({ actor, params, body }) => scenarios.createScenario(ctx, actor, params.id, body))
   api.add({ method: 'get', path: '/api/scenarios/:id', summary: 'A scenario', tag: 'scenarios', access: 'signed-in', params: IdParam, response: ScenarioRecord },
     ({ actor, params }) => scenarios.getScenario(ctx, actor, params.id))
-  api.add({ method: 'put', path: '/api/scenarios/:id', summary: 'Change a scenario', tag: 'scenarios', access: OFFICERS, params: IdParam, body: ScenarioConfig, response: ScenarioRecord },
+  api.add({ method: 'put', path: '/api/scenarios/:id', summary: 'Change a scenario (with the updatedAt it was read at: 409 stale_version when saved since)', tag: 'scenarios', access: OFFICERS, params: IdParam, body: ScenarioChange, response: ScenarioRecord },
     ({ actor, params, body }) => scenarios.changeScenario(ctx, actor, params.id, body))
   api.add({ method: 'delete', path: '/api/scenarios/:id', summary: 'Delete a scenario (its runs stay)', tag: 'scenarios', access: OFFICERS, params: IdParam },
     ({ actor, params }) => scenarios.removeScenario(ctx, actor, params.id))

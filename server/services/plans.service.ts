@@ -19,7 +19,8 @@ import { appendAudit } from '../repositories/audit.repo'
 import { floorIdsOfUser } from '../repositories/floors.repo'
 import {
   auditOf, findDraft, findLatestPublished, findPlanInOrg, findVersion, insertAck, insertPlan, insertVersion, listAcks, listPlansInOrg,
-  listVersions, managersOfFloors, maxVersion, publishDraft, publisherOfVersion, runsWithSummaries, updateDraftContent, updatePlanRuns,
+  listVersions, lockPlan, managersOfFloors, maxVersion, nameOfUser, publishDraft, publisherOfVersion, runsWithSummaries, updateDraftContent,
+  updatePlanRuns,
 } from '../repositories/plans.repo'
 import type { ServiceContext } from './context'
 import { canManageFloors, requireVisibleFloor } from './floors.service'
@@ -263,11 +264,26 @@ export async function refreshPlan(ctx: ServiceContext, actor: Actor, id: number,
   return getPlan(ctx, actor, id)
 }
 
+/** 409 stale_version when the version an edit started from (the open draft, else the latest published) changed since `seen`. */
+async function refuseStale(db: Db, planId: number, draft: VersionRow | undefined, seen: string) {
+  const base = draft ?? (await findLatestPublished(db, planId))
+  if (!base || new Date(base.updated_at).getTime() === Date.parse(seen)) return
+  const who = await nameOfUser(db, base.status === 'published' ? base.published_by : base.updated_by)
+  const what = base.status === 'published' ? `published version ${base.version}` : `saved the draft of version ${base.version}`
+  throw conflict(`${who ?? 'Someone'} ${what} in the meantime (at ${new Date(base.updated_at).toISOString()}, you read it at ${seen}). `
+    + 'Reload the plan to see their change; your text is kept here to copy back.', 'stale_version')
+}
+
 /** Edits the draft; when the latest version is published, the edit becomes the draft of the next version. */
-export async function saveDraft(ctx: ServiceContext, actor: Actor, id: number, content: PlanContent): Promise<PlanDetail> {
+export async function saveDraft(ctx: ServiceContext, actor: Actor, id: number, content: PlanContent, seen?: string): Promise<PlanDetail> {
   await requirePlan(ctx, actor, id)
   await ctx.db.transaction().execute(async (trx) => {
-    const version = await writeDraft(trx, actor, id, await findDraft(trx, id), content)
+    // Saves of one plan run one at a time; with the updatedAt the edit started from, a save, refresh or publish
+    // since then answers 409 stale_version instead of being overwritten (issue 14).
+    await lockPlan(trx, id)
+    const draft = await findDraft(trx, id)
+    if (seen !== undefined) await refuseStale(trx, id, draft, seen)
+    const version = await writeDraft(trx, actor, id, draft, content)
     await appendAudit(trx, { orgId: actor.orgId, actorId: actor.id, action: 'plan.draft_saved', targetType: 'plan', targetId: id, detail: { version } })
   })
   return getPlan(ctx, actor, id)

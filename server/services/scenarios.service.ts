@@ -2,13 +2,15 @@ import { ScenarioError } from '../../shared/engine/errors'
 import { validateScenario } from '../../shared/engine/validate'
 import { Plan } from '../../shared/floorplan/plan-schema'
 import { buildRunScenario } from '../../shared/runs/build-scenario'
-import type { ScenarioConfig, ScenarioRecord } from '../../shared/schemas/runs'
+import type { ScenarioChange, ScenarioConfig, ScenarioRecord } from '../../shared/schemas/runs'
 import { ScenarioConfig as ScenarioConfigSchema } from '../../shared/schemas/runs'
-import { AppError, notFound } from '../http/errors'
+import { AppError, conflict, notFound } from '../http/errors'
 import type { Actor } from '../http/session-user'
 import { appendAudit } from '../repositories/audit.repo'
 import { latestRunsOfScenarios } from '../repositories/runs.repo'
-import { deleteScenario, findScenarioByName, findScenarioInOrg, insertScenario, listScenariosOfFloor, updateScenario } from '../repositories/scenarios.repo'
+import {
+  deleteScenario, findScenarioByName, findScenarioInOrg, insertScenario, listScenariosOfFloor, lockScenario, updateScenario,
+} from '../repositories/scenarios.repo'
 import type { ServiceContext } from './context'
 import { requireVisibleFloor } from './floors.service'
 import { scenarioChanged, scenarioRemoved } from './staleness.service'
@@ -73,12 +75,31 @@ export async function createScenario(ctx: ServiceContext, actor: Actor, floorId:
   return toRecord(row, undefined)
 }
 
-export async function changeScenario(ctx: ServiceContext, actor: Actor, id: number, config: ScenarioConfig) {
+/** Settings whose saved value differs from the one sent: says what the other save changed, in the form's terms. */
+function differingSettings(saved: unknown, mine: ScenarioConfig) {
+  const s = (saved ?? {}) as Record<string, unknown>
+  const keys = new Set([...Object.keys(s), ...Object.keys(mine)])
+  return [...keys].filter((k) => JSON.stringify(s[k]) !== JSON.stringify((mine as Record<string, unknown>)[k])).sort()
+}
+
+export async function changeScenario(ctx: ServiceContext, actor: Actor, id: number, change: ScenarioChange) {
+  const { updatedAt: seen, ...config } = change
   const { floor, row: before } = await requireScenario(ctx, actor, id)
   checkRunnable(floor, config)
   await refuseDuplicateName(ctx, floor.id, config.name, id)
-  const row = await updateScenario(ctx.db, actor.orgId, id, { name: config.name, config })
-  await appendAudit(ctx.db, { orgId: actor.orgId, actorId: actor.id, action: 'scenario.changed', targetType: 'scenario', targetId: id })
+  const row = await ctx.db.transaction().execute(async (trx) => {
+    // Optimistic check (issue 14): the row is locked, so of two racing saves from the same read one answers 409.
+    const locked = await lockScenario(trx, actor.orgId, id)
+    if (!locked) throw notFound('Scenario')
+    if (seen !== undefined && new Date(locked.updated_at).getTime() !== Date.parse(seen)) {
+      const diff = differingSettings(locked.config, config)
+      throw conflict(`Someone saved this scenario in the meantime (at ${new Date(locked.updated_at).toISOString()}, you read it at ${seen})`
+        + `${diff.length ? `; the saved one differs from yours in: ${diff.join(', ')}` : ''}. Reload it to see their change; your settings stay in the form.`, 'stale_version')
+    }
+    const updated = await updateScenario(trx, actor.orgId, id, { name: config.name, config })
+    await appendAudit(trx, { orgId: actor.orgId, actorId: actor.id, action: 'scenario.changed', targetType: 'scenario', targetId: id })
+    return updated
+  })
   await scenarioChanged(ctx, actor, id, before.config, config)
   return toRecord(row!, (await latestRunsOfScenarios(ctx.db, [id]))[0])
 }

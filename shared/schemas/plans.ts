@@ -223,7 +223,14 @@ export type NewPlan = z.infer<typeof NewPlan>
 export const RefreshPlan = z.object({ runIds: PlanRunIds })
 export type RefreshPlan = z.infer<typeof RefreshPlan>
 
-export const SaveDraft = z.object({ content: PlanContent })
+export const SaveDraft = z.object({
+  content: PlanContent,
+  /**
+   * The updatedAt of the version the edit started from (versions[] entry of `current`): when given and the draft
+   * was saved, refreshed or published since, 409 stale_version (issue 14). Absent: saves as before.
+   */
+  updatedAt: z.iso.datetime({ offset: true, message: 'A date-time as the plan gave it (updatedAt)' }).optional(),
+})
 export type SaveDraft = z.infer<typeof SaveDraft>
 
 export const PublishInput = z.object({

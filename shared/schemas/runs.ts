@@ -51,6 +51,12 @@ export const ScenarioConfig = z.object({
 })
 export type ScenarioConfig = z.infer<typeof ScenarioConfig>
 
+/** PUT /api/scenarios/:id: the settings plus, optionally, the scenario's updatedAt as read (409 stale_version when changed since, issue 14). */
+export const ScenarioChange = ScenarioConfig.extend({
+  updatedAt: z.iso.datetime({ offset: true, message: 'A date-time as the scenario gave it (updatedAt)' }).optional(),
+})
+export type ScenarioChange = z.infer<typeof ScenarioChange>
+
 export const RUN_STATUSES = ['queued', 'running', 'succeeded', 'failed', 'cancelled'] as const
 export const RunStatus = z.enum(RUN_STATUSES)
 export type RunStatus = z.infer<typeof RunStatus>
