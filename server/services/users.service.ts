@@ -1,10 +1,11 @@
 import { ROLE_LABELS } from '../../shared/schemas/common'
-import type { Invitation, UserSummary, UserUpdate } from '../../shared/schemas/users'
+import type { Invitation, InvitationSent, UserSummary, UserUpdate } from '../../shared/schemas/users'
 import type { UsersTable } from '../db/tables/foundation'
 import { AppError, conflict, notFound } from '../http/errors'
 import type { Actor } from '../http/session-user'
 import { composeMail } from '../mail/compose'
 import { appendAudit } from '../repositories/audit.repo'
+import { findOutgoingByRef } from '../repositories/mail.repo'
 import { findOrg } from '../repositories/orgs.repo'
 import {
   countActiveAdmins, deleteSessionsOfUser, findUserByEmail, findUserInOrg, insertUser, listUsersInOrg, updateUser,
@@ -22,28 +23,65 @@ export async function listUsers(ctx: ServiceContext, actor: Actor) {
   return { users: (await listUsersInOrg(ctx.db, actor.orgId)).map(toUserSummary) }
 }
 
-/** Creates an invited account and e-mails a signed link where the person sets a password. */
-export async function inviteUser(ctx: ServiceContext, actor: Actor, input: Invitation): Promise<UserSummary> {
-  if (await findUserByEmail(ctx.db, input.email)) {
-    throw new AppError(409, 'email_taken', 'Someone already has an account with this e-mail', { email: 'Already in use' })
+const STATUS_WORDS = { invited: 'invited, not yet signed in', active: 'active', deactivated: 'deactivated' } as const
+
+/** One answer for a new address and for one already used in another organization (nothing tells them apart). */
+const sentAnswer = (email: string): InvitationSent => ({
+  email,
+  message: `An invitation is on its way to ${email}. The link works once and expires in 7 days; the person appears in the list as invited.`,
+})
+
+/**
+ * Creates an invited account and e-mails a signed link where the person sets a password. An address of this
+ * organization is refused by name (its admin knows their own people); an address with an account in another
+ * organization gets the same answer as a new one and its owner a short notice instead, so nobody learns it exists.
+ */
+export async function inviteUser(ctx: ServiceContext, actor: Actor, input: Invitation): Promise<InvitationSent> {
+  const existing = await findUserByEmail(ctx.db, input.email)
+  if (existing && existing.org_id === actor.orgId) {
+    throw new AppError(409, 'email_taken', `This address already belongs to ${existing.name} in your organization (${STATUS_WORDS[existing.status]})`,
+      { email: `Already used by ${existing.name} (${STATUS_WORDS[existing.status]})` })
   }
-  return ctx.db.transaction().execute(async (trx) => {
+  const org = await findOrg(ctx.db, actor.orgId)
+  const orgName = org?.name ?? 'an organization'
+  const subject = `You are invited to ${org?.name ?? 'Driftwarden'} on Driftwarden`
+  if (existing) {
+    const ref = `invite-existing:org:${actor.orgId}:user:${existing.id}`
+    // One notice a day per inviting organization, so repeated invitations cannot flood the owner's mailbox.
+    const recent = (await findOutgoingByRef(ctx.db, ref)).some((m) => Date.now() - new Date(m.created_at).getTime() < 24 * 3600_000)
+    if (!recent) await ctx.db.transaction().execute(async (trx) => {
+      const mail = composeMail({
+        subject,
+        greeting: `Hello ${existing.name},`,
+        paragraphs: [
+          `${actor.name} of ${orgName} tried to invite this address to Driftwarden. It already has an account with another organization, so no new account was made and nothing about your account changed.`,
+          `An address can belong to one organization only. If you want to join ${orgName} as well, ask them to invite another address of yours; if you did not expect this, you can ignore this message.`,
+        ],
+      })
+      // Queued under the inviting organization with the invitation's subject: its outbox reads as for a new address.
+      await ctx.mail.queue(trx, { orgId: actor.orgId, kind: 'invitation', ref, to: existing.email, ...mail })
+      // Recorded for the account's own organization, not the inviter's.
+      await appendAudit(trx, { orgId: existing.org_id, actorId: null, action: 'user.invited_elsewhere', targetType: 'user', targetId: existing.id,
+        detail: { byOrgId: actor.orgId } })
+    })
+    return sentAnswer(input.email.toLowerCase())
+  }
+  await ctx.db.transaction().execute(async (trx) => {
     const user = await insertUser(trx, { orgId: actor.orgId, email: input.email, name: input.name, role: input.role, status: 'invited', passwordHash: null })
-    const org = await findOrg(trx, actor.orgId)
     const token = await issueLink(trx, ctx.linkSecret, user.id, 'invite', INVITE_TTL_S)
     const mail = composeMail({
-      subject: `You are invited to ${org?.name ?? 'Driftwarden'} on Driftwarden`,
+      subject,
       greeting: `Hello ${input.name},`,
       paragraphs: [
-        `${actor.name} invited you to join ${org?.name ?? 'your organization'} on Driftwarden with the role “${ROLE_LABELS[input.role]}”.`,
+        `${actor.name} invited you to join ${orgName} on Driftwarden with the role “${ROLE_LABELS[input.role]}”.`,
         'Open the link below to choose your password. The link works once and expires in 7 days.',
       ],
       action: { label: 'Set your password', url: `${ctx.publicUrl()}/invite?token=${encodeURIComponent(token)}` },
     })
     await ctx.mail.queue(trx, { orgId: actor.orgId, kind: 'invitation', ref: `user:${user.id}`, to: user.email, ...mail })
     await appendAudit(trx, { orgId: actor.orgId, actorId: actor.id, action: 'user.invited', targetType: 'user', targetId: user.id, detail: { role: input.role } })
-    return toUserSummary(user)
   })
+  return sentAnswer(input.email.toLowerCase())
 }
 
 export async function changeUser(ctx: ServiceContext, actor: Actor, id: number, patch: UserUpdate): Promise<UserSummary> {

@@ -1,6 +1,6 @@
 import { acceptHMRUpdate, defineStore } from 'pinia'
 import { ref } from 'vue'
-import type { Invitation, UserSummary, UserUpdate } from '../../shared/schemas/users'
+import type { Invitation, InvitationSent, UserSummary, UserUpdate } from '../../shared/schemas/users'
 import { type ApiError, toApiError } from '../api/http'
 import { usersApi } from '../api/users'
 
@@ -23,11 +23,12 @@ export const useUsersStore = defineStore('users', () => {
     }
   }
 
-  /** Sends an invitation; throws ApiError (409 when the e-mail already has an account, 400 with field messages). */
-  async function inviteUser(invitation: Invitation): Promise<UserSummary> {
-    const created = await usersApi.invite(invitation)
-    users.value = [...users.value.filter((u) => u.id !== created.id), created]
-    return created
+  /** Sends an invitation; throws ApiError (409 when the address is already in this organization, 400 with field messages). */
+  async function inviteUser(invitation: Invitation): Promise<InvitationSent> {
+    const sent = await usersApi.invite(invitation)
+    // The answer carries no account (it must not tell whether the address exists elsewhere): reload the list.
+    await fetchUsers()
+    return sent
   }
 
   async function updateUser(id: number, update: UserUpdate): Promise<UserSummary> {

@@ -24,7 +24,7 @@ describe('SMTP server stopped', () => {
     await rt.fakeSmtp!.close()
     const a = await signIn(rt, admin.email, admin.password)
     const email = `outage.${Date.now()}@calder-ridge.example`
-    await a.post('/api/users/invitations').send({ email, name: 'Outage Test', role: 'staff' }).expect(201)
+    await a.post('/api/users/invitations').send({ email, name: 'Outage Test', role: 'staff' }).expect(202)
 
     // The dispatcher tries, fails, and keeps the message pending with the error recorded. (A claim counts
     // the attempt before the send is tried, so wait for the recorded error, not for the count.)
@@ -70,7 +70,7 @@ describe('PostgreSQL restarted under load', () => {
   it('recovers by itself: requests succeed again, sessions survive, nothing is lost', async () => {
     const a = await signIn(rt, admin.email, admin.password)
     const before = `kept.${Date.now()}@calder-ridge.example`
-    await a.post('/api/users/invitations').send({ email: before, name: 'Kept Person', role: 'staff' }).expect(201)
+    await a.post('/api/users/invitations').send({ email: before, name: 'Kept Person', role: 'staff' }).expect(202)
 
     const statuses: number[] = []
     let stop = false
