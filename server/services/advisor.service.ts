@@ -11,6 +11,7 @@ import { RunFieldsMeta, RunSummary, type AdvisorAccept, type AdvisorProposal, ty
 import { AppError } from '../http/errors'
 import type { Actor } from '../http/session-user'
 import { appendAudit } from '../repositories/audit.repo'
+import { bundleMembers } from '../repositories/bundles.repo'
 import { findResultFronts, findRunInOrg } from '../repositories/runs.repo'
 import type { ServiceContext } from './context'
 import { requireVisibleFloor, savePlan } from './floors.service'
@@ -37,14 +38,22 @@ export async function propose(ctx: ServiceContext, actor: Actor, floorId: number
   const floor = await requireVisibleFloor(ctx.db, actor, floorId)
   const plan = Plan.parse(floor.plan)
   if (!req.candidates.length && req.gridSpacingM) checkGridSize(plan, req.gridSpacingM)
-  const runs = []
+  const runs: NonNullable<Awaited<ReturnType<typeof findRunInOrg>>>[] = []
   for (const [i, id] of req.runIds.entries()) {
     const run = await findRunInOrg(ctx.db, actor.orgId, id)
     if (!run || run.floor_id !== floorId) throw bad(`runIds.${i}`, 'No such run on this floor')
     if (run.status !== 'succeeded') throw bad(`runIds.${i}`, 'This run has no result (not finished)')
     runs.push(run)
   }
-  const results = new Map((await findResultFronts(ctx.db, req.runIds)).map((r) => [r.run_id, r]))
+  // Sensitivity bundles (issue 17): each finished case counts as a scenario of its own, so the min-max placement
+  // answers for the worst of them (the conservative end); the nominal stays listed beside them in perRun.
+  const bundled: string[] = []
+  for (const run of [...runs]) {
+    const cases = (await bundleMembers(ctx.db, actor.orgId, run.id)).filter((m) => m.status === 'succeeded' && !runs.some((r) => r.id === m.run_id))
+    for (const m of cases) { const r = await findRunInOrg(ctx.db, actor.orgId, m.run_id); if (r) runs.push(r) }
+    if (cases.length) bundled.push(`${run.label} (${cases.length} sensitivity cases)`)
+  }
+  const results = new Map((await findResultFronts(ctx.db, runs.map((r) => r.id))).map((r) => [r.run_id, r]))
   const parsed = runs.map((run) => {
     const r = results.get(run.id)!
     return { run, meta: RunFieldsMeta.parse(r.meta), summary: RunSummary.parse(r.summary), fronts: r.fronts }
@@ -105,6 +114,7 @@ export async function propose(ctx: ServiceContext, actor: Actor, floorId: number
     alarmLowPpm: defaults[0]?.ppm ?? limit.ppm,
     alarmHighPpm: defaults[1]?.ppm ?? defaults[0]?.ppm ?? limit.ppm,
     notes: [
+      ...(bundled.length ? [`Placed for the conservative end: the sensitivity cases of ${bundled.join(', ')} count as scenarios of their own, so the worst time is the worst over them; each is listed with the nominal in the times per run.`] : []),
       ...(near.excluded ? [`${near.excluded} candidate point${near.excluded === 1 ? ' was' : 's were'} left out for lying within ${SOURCE_CLEARANCE_M} m of a leak source: common practice puts detectors near the leak point, not on it.`] : []),
       `Times are read from the stored fronts at the breathing-height plane (${parsed[0]!.meta.breathingHeightM} m) of each run, on its ${parsed[0]!.meta.cellM} m grid; they do not include the detector's own response time (T90) or sample transport.`,
       `Mounting height when accepted: ${mount.heightM} m. ${mount.basis}.`,

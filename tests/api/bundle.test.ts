@@ -177,6 +177,14 @@ describe('sensitivity bundles', () => {
       expect(content.summary).toContain(`${pick.label}, run #${pick.runId}, in place of the nominal run #${nominalId}`)
       expect(content.timeline.rows.some((r: { id: string }) => r.id.startsWith(`tl-${nominalId}-`))).toBe(false)
     }
+    // The detector advisor places for the worst of the cases: the same answer as listing every case by hand.
+    const ask = (runIds: number[]) => officer.post(`/api/floors/${floorId}/advisor`).send({ runIds, gridSpacingM: 1, count: 1, deadlineS: 120 }).expect(200)
+    const viaBundle = (await ask([nominalId])).body
+    const byHand = (await ask(b.cases.map((c) => c.runId))).body
+    expect(viaBundle.perRun.map((r: { runId: number }) => r.runId).sort()).toEqual(b.cases.map((c) => c.runId).sort())
+    expect(viaBundle.chosen).toEqual(byHand.chosen)
+    expect(viaBundle.worstTimeS).toBe(byHand.worstTimeS)
+    expect(viaBundle.notes[0]).toMatch(/^Placed for the conservative end: the sensitivity cases of NH3 plan bundle \(3 sensitivity cases\)/)
     // No case reaches a critical level sooner in room S than the one the plan uses.
     for (const c of cases) expect(c.summary.rooms.find((r) => r.id === 'S')!.firstExceedS.idlh ?? Infinity).toBeGreaterThanOrEqual(critS ?? Infinity)
   }, 240_000)
