@@ -271,7 +271,7 @@ async function refuseStale(db: Db, planId: number, draft: VersionRow | undefined
   const who = await nameOfUser(db, base.status === 'published' ? base.published_by : base.updated_by)
   const what = base.status === 'published' ? `published version ${base.version}` : `saved the draft of version ${base.version}`
   throw conflict(`${who ?? 'Someone'} ${what} in the meantime (at ${new Date(base.updated_at).toISOString()}, you read it at ${seen}). `
-    + 'Reload the plan to see their change; your text is kept here to copy back.', 'stale_version')
+    + 'Reload the plan to see their change.', 'stale_version')
 }
 
 /** Edits the draft; when the latest version is published, the edit becomes the draft of the next version. */

@@ -94,7 +94,7 @@ export async function changeScenario(ctx: ServiceContext, actor: Actor, id: numb
     if (seen !== undefined && new Date(locked.updated_at).getTime() !== Date.parse(seen)) {
       const diff = differingSettings(locked.config, config)
       throw conflict(`Someone saved this scenario in the meantime (at ${new Date(locked.updated_at).toISOString()}, you read it at ${seen})`
-        + `${diff.length ? `; the saved one differs from yours in: ${diff.join(', ')}` : ''}. Reload it to see their change; your settings stay in the form.`, 'stale_version')
+        + `${diff.length ? `; the saved one differs from yours in: ${diff.join(', ')}` : ''}. Reload it to see their change.`, 'stale_version')
     }
     const updated = await updateScenario(trx, actor.orgId, id, { name: config.name, config })
     await appendAudit(trx, { orgId: actor.orgId, actorId: actor.id, action: 'scenario.changed', targetType: 'scenario', targetId: id })

@@ -12,7 +12,8 @@ export const plansApi = {
   create: (input: NewPlan) => http.post(PLAN_API.plans, input, { schema: PlanDetail }),
   get: (id: number) => http.get(PLAN_API.plan(id), { schema: PlanDetail }),
   version: (id: number, v: number) => http.get(PLAN_API.version(id, v), { schema: VersionBody }),
-  saveDraft: (id: number, content: PlanContent) => http.put(PLAN_API.draft(id), { content }, { schema: PlanDetail }),
+  /** With `updatedAt` (of the version the edit started from): 409 stale_version when saved, refreshed or published since. */
+  saveDraft: (id: number, content: PlanContent, updatedAt?: string) => http.put(PLAN_API.draft(id), { content, updatedAt }, { schema: PlanDetail }),
   refresh: (id: number, runIds: number[]) => http.post(PLAN_API.refresh(id), { runIds }, { schema: PlanDetail }),
   publish: (id: number, ackDueDays: number) => http.post(PLAN_API.publish(id), { ackDueDays }, { schema: PlanDetail }),
   acknowledge: (id: number, v: number, comment: string) => http.post(PLAN_API.acknowledge(id, v), { comment }, { schema: AckRecord }),

@@ -9,7 +9,8 @@ import { ApiError, http } from './http'
 export const runsApi = {
   listScenarios: async (floorId: number) => (await http.get(API.floorScenarios(floorId), { schema: ScenarioList })).scenarios,
   createScenario: (floorId: number, config: ScenarioConfig) => http.post(API.floorScenarios(floorId), config, { schema: ScenarioRecord }),
-  updateScenario: (id: number, config: ScenarioConfig) => http.put(API.scenario(id), config, { schema: ScenarioRecord }),
+  /** With `updatedAt` (as read): 409 stale_version when someone saved the scenario since. */
+  updateScenario: (id: number, config: ScenarioConfig, updatedAt?: string) => http.put(API.scenario(id), { ...config, updatedAt }, { schema: ScenarioRecord }),
   deleteScenario: (id: number) => http.delete(API.scenario(id)),
   startRun: (scenarioId: number) => http.post(API.scenarioRuns(scenarioId), undefined, { schema: RunDetail }),
   listFloorRuns: async (floorId: number) => (await http.get(API.floorRuns(floorId), { schema: RunList })).runs,

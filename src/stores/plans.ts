@@ -1,7 +1,7 @@
 import { acceptHMRUpdate, defineStore } from 'pinia'
 import { ref } from 'vue'
 import type { NewPlan, PlanContent, PlanDetail, PlanListItem } from '../../shared/schemas/plans'
-import { type ApiError, toApiError } from '../api/http'
+import { ApiError, toApiError } from '../api/http'
 import { plansApi } from '../api/plans'
 
 /** Response plans: the dashboard list and the plan open in the detail page. */
@@ -44,8 +44,20 @@ export const usePlansStore = defineStore('plans', () => {
     current.value = await plansApi.create(input)
     return current.value
   }
+  /**
+   * Saves with the updatedAt of the version shown (the one the edit started from). On 409 stale_version the plan
+   * is read again, so Save once more is a deliberate overwrite; the page keeps the officer's text meanwhile.
+   */
   async function saveDraft(content: PlanContent) {
-    current.value = await plansApi.saveDraft(current.value!.id, content)
+    const c = current.value!
+    const seen = c.versions.find((v) => v.version === c.current.version)?.updatedAt
+    try {
+      current.value = await plansApi.saveDraft(c.id, content, seen)
+    } catch (e) {
+      if (!(e instanceof ApiError) || e.code !== 'stale_version') throw e
+      current.value = await plansApi.get(c.id).catch(() => c)
+      throw new ApiError(e.status, e.code, `${e.message} Your edit is still open here: save again to put it over theirs, or copy what you need and cancel editing to read theirs.`, e.fields)
+    }
     audit.value = await plansApi.audit(current.value.id)
   }
   async function refresh(runIds: number[]) {

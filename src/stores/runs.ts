@@ -4,7 +4,7 @@ import type { FloorDetail, FloorSummary } from '../../shared/schemas/floors'
 import type { AdvisorProposal, AdvisorRequest, RunDetail, RunListItem, RunSeries, ScenarioConfig, ScenarioRecord, SweepDetail } from '../../shared/schemas/runs'
 import type { CompareInput } from '../../shared/runs/compare'
 import { floorsApi } from '../api/floors'
-import { type ApiError, toApiError } from '../api/http'
+import { ApiError, toApiError } from '../api/http'
 import { runsApi } from '../api/runs'
 
 const FINISHED = ['succeeded', 'failed', 'cancelled']
@@ -37,9 +37,22 @@ export const useRunsStore = defineStore('runs', () => {
   })
   const refreshRuns = async (floorId: number) => { runs.value = await runsApi.listFloorRuns(floorId); scenarios.value = await runsApi.listScenarios(floorId) }
 
+  /**
+   * Sends the updatedAt of the scenario as listed; on 409 stale_version the list is read again (so Save once more
+   * is a deliberate overwrite) and the message says so, while the form keeps what was typed.
+   */
+  async function changeScenario(floorId: number, id: number, config: ScenarioConfig) {
+    try {
+      return await runsApi.updateScenario(id, config, scenarios.value.find((s) => s.id === id)?.updatedAt)
+    } catch (e) {
+      if (!(e instanceof ApiError) || e.code !== 'stale_version') throw e
+      scenarios.value = await runsApi.listScenarios(floorId).catch(() => scenarios.value)
+      throw new ApiError(e.status, e.code, `${e.message} Your settings are still in the form: save again to put them over theirs, or press Edit on the scenario to start from theirs.`, e.fields)
+    }
+  }
   /** Throws ApiError (400 with fields) so the form can show them. */
   async function saveScenario(floorId: number, config: ScenarioConfig, id?: number) {
-    const saved = id ? await runsApi.updateScenario(id, config) : await runsApi.createScenario(floorId, config)
+    const saved = id ? await changeScenario(floorId, id, config) : await runsApi.createScenario(floorId, config)
     scenarios.value = [...scenarios.value.filter((s) => s.id !== saved.id), saved].sort((a, b) => a.name.localeCompare(b.name))
     return saved
   }
