@@ -22,6 +22,7 @@ export function resultToJson(r: SimulationResult, opts: ResultJsonOptions = {}) 
       peak_ppm: round(p.peak_ppm),
       peak_time_s: round(p.peak_time_s),
       max_twa15_ppm: round(p.max_twa15_ppm),
+      ...(p.grid_sensitivity_pct !== null ? { grid_sensitivity_pct: round(p.grid_sensitivity_pct, 3) } : {}),
       first_exceed_s: Object.fromEntries(r.thresholds.map((t, k) => [t.label, p.first_exceed_s[k] === null ? null : round(p.first_exceed_s[k]!)])),
       o2_percent: ppm.map((v) => round(20.9 * (1 - Math.min(v, 1e6) / 1e6), 5)),
       ...(lel !== null ? { percent_lel: ppm.map((v) => round(v / (lel * 100), 5)) } : {}),
@@ -42,6 +43,7 @@ export function resultToJson(r: SimulationResult, opts: ResultJsonOptions = {}) 
     thresholds: r.thresholds.map((t) => ({ label: t.label, ppm: round(t.ppm) })),
     grid: { nx: r.grid.nx, ny: r.grid.ny, nz: r.grid.nz, cell_m: r.grid.cell_m, layer_m: round(r.grid.layer_m), origin_m: r.grid.origin_m },
     error_control: r.error_control,
+    error_estimate: r.error_estimate.grid ? { grid: { ...r.error_estimate.grid, worst_probe_pct: r.error_estimate.grid.worst_probe_pct === null ? null : round(r.error_estimate.grid.worst_probe_pct, 3) } } : { grid: null },
     stats: { ...r.stats, wall_s: round(r.stats.wall_s, 4) },
   }
   if (opts.fields) {

@@ -1,5 +1,5 @@
 import type { Gas } from '../gases/gas-schema'
-import { SimulationCancelled } from './errors'
+import { ScenarioError, SimulationCancelled } from './errors'
 import { applyOperator, explicitStableStep, outgoingRates } from './operator'
 import { FACTOR_CACHE_LEVELS, factorSweep, solveFactored, type SweepFactor } from './factored-sweep'
 import { fusedRhsSolveXY } from './fused-step'
@@ -25,6 +25,10 @@ export interface SimulateOptions {
    * every step and output (the CLI without --fields prints none of them). Probes, the mass balance
    * and the stats are unaffected. @default true */
   planFields?: boolean
+  /** Also run a companion on a grid twice as coarse (cells 2h, half the layers; about 1/8 of the cells)
+   * and report per probe the largest difference to it (`grid_sensitivity_pct`, `error_estimate.grid`).
+   * Off by default: it costs about 10–20 % more. @default false */
+  gridCheck?: boolean
 }
 
 /** Time series and summary at one probe. */
@@ -38,6 +42,9 @@ export interface ProbeResult {
   max_twa15_ppm: number
   /** First time each threshold is reached (s), null if never; same order as `thresholds`. */
   first_exceed_s: (number | null)[]
+  /** With `gridCheck`: max over the outputs of |this run − the 2h companion|, % of this probe's peak
+   * (null without the check or when the coarse grid cannot represent the plan). */
+  grid_sensitivity_pct: number | null
 }
 
 /** Everything a run produces. Plan arrays are nx·ny, index i + nx·j; NaN marks non-air cells. */
@@ -67,7 +74,9 @@ export interface SimulationResult {
   diffusivity_m2_s: number
   diffusivity_basis: string
   gas: Gas
-  /** How the time-stepping error was controlled and what it is estimated to be. */
+  /** Grid sensitivity from the coarse companion (`gridCheck`), null when not run. */
+  error_estimate: { grid: { method: string; coarse_cell_m: number; coarse_layers: number; worst_probe_pct: number | null; note?: string } | null }
+  /** How the time-stepping error was controlled. */
   error_control: {
     method: string
     /** Local tolerance of the h³C''' estimate and of the trapezoidal defect (relative to a room's gas); null for fixed steps. */
@@ -106,7 +115,37 @@ export function simulate(input: unknown, opts: SimulateOptions = {}): Simulation
   const valid: ValidScenario = isValid(input) ? input : validateScenario(input)
   const { scenario: s, gas } = valid
   const m = buildModel(s, gas)
-  return run(s, gas, m, opts, t0Wall, now)
+  const result = run(s, gas, m, opts, t0Wall, now)
+  if (opts.gridCheck) gridCompanion(s, gas, result, opts)
+  return result
+}
+
+/**
+ * The coarse companion of `gridCheck`: same scenario on cells of 2h and half the layers (at least 1),
+ * same step control. The difference is a grid sensitivity, not a bound: where the results converge,
+ * the fine run's grid error is usually below it (a factor 3 below for second-order convergence,
+ * Richardson), but near a point source convergence is not monotone (tests/engine/sources.test.ts).
+ */
+function gridCompanion(s: Scenario, gas: Gas, result: SimulationResult, opts: SimulateOptions): void {
+  const coarse: Scenario = { ...s, grid: { cell_m: 2 * s.grid.cell_m, layers: Math.max(1, Math.round(s.grid.layers / 2)) } }
+  const method = 'max over outputs of |C(h) − C(2h)| / peak, companion on cells of 2h and half the layers'
+  let r: SimulationResult
+  try {
+    r = run(coarse, gas, buildModel(coarse, gas), { planFields: false, signal: opts.signal }, 0, () => 0)
+  } catch (e) {
+    if (!(e instanceof ScenarioError)) throw e
+    result.error_estimate.grid = { method, coarse_cell_m: coarse.grid.cell_m, coarse_layers: coarse.grid.layers, worst_probe_pct: null, note: `the coarse grid cannot represent the plan (${e.message})` }
+    return
+  }
+  let worst = 0
+  result.probes.forEach((p, q) => {
+    const c = r.probes[q]!.ppm
+    let peak = 0, diff = 0
+    for (let k = 0; k < p.ppm.length; k++) { peak = Math.max(peak, p.ppm[k]!); diff = Math.max(diff, Math.abs(p.ppm[k]! - c[k]!)) }
+    p.grid_sensitivity_pct = peak > 0 ? (100 * diff) / peak : 0
+    worst = Math.max(worst, p.grid_sensitivity_pct)
+  })
+  result.error_estimate.grid = { method, coarse_cell_m: coarse.grid.cell_m, coarse_layers: coarse.grid.layers, worst_probe_pct: worst }
 }
 
 function isValid(x: unknown): x is ValidScenario {
@@ -674,6 +713,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
     return {
       id: pr.id, ppm: series, peak_ppm: probePeak[q]! * 1e6, peak_time_s: probePeakT[q]!, max_twa15_ppm: best,
       first_exceed_s: Array.from(probeFirst[q]!, (v) => (Number.isFinite(v) ? v : null)),
+      grid_sensitivity_pct: null,
     }
   })
   const nan = (a: Float64Array, scale: number) => {
@@ -694,6 +734,7 @@ function run(s: Scenario, gas: Gas, m: Model, opts: SimulateOptions, t0Wall: num
       closure_error: releasedTotal > 0 ? Math.abs(releasedTotal - totalAir - removed) / releasedTotal : 0,
     },
     diffusivity_m2_s: m.diffusivity, diffusivity_basis: m.diffusivityBasis, gas,
+    error_estimate: { grid: null },
     error_control: {
       method: explicit ? 'explicit FTCS at 0.98 × its stability limit (bench baseline; no estimate)'
         : (fixedDt !== undefined ? `fixed step ${fixedDt} s (numerics.time_step_s); ` : 'adaptive steps: each step meets the local Crank-Nicolson estimate h³/12·|C\'\'\'| (tolerance) and ')
