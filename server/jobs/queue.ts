@@ -18,6 +18,8 @@ function guardCompletions() {
       p.catch((e: Error) => console.warn(`[queue] ${name} of job ${String(args[1])} not recorded: ${e.message}`))
       return p
     }, { guarded: true as const })
+    // PgBoss exposes the manager's methods under func.name: keep the name, or boss.fail/complete disappear.
+    Object.defineProperty(guarded, 'name', { value: name })
     proto[name] = guarded
   }
 }
