@@ -1,6 +1,7 @@
 import { contours } from 'd3-contour'
 import type { Plan } from '../floorplan/plan-schema'
 import type { LimitLine, RunFieldsMeta, RunSummary } from '../schemas/runs'
+import { colourScale } from '../runs/display'
 import { formatSeconds } from './format'
 import { isCriticalKey, isExposureKey } from './rules'
 
@@ -19,7 +20,20 @@ export interface FigureField {
 
 export const xmlEscape = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;').replace(/'/g, '&#39;')
 
-const COLORS = ['#f5d25c', '#f0913a', '#c0392b']
+/**
+ * Areas beyond each limit take their colour from the results map's own perceptual scale (log ppm, viridis), so the
+ * PDF and the screen read alike: a limit's area has the colour its concentration has on the map. The scale spans a
+ * decade below the mildest shown limit to a decade above the strictest.
+ */
+export function limitColours(limits: LimitLine[]): string[] {
+  if (!limits.length) return []
+  const ppm = limits.map((l) => l.ppm)
+  const scale = colourScale(Math.min(...ppm) / 10, Math.max(...ppm) * 10)
+  return ppm.map((v) => scale.colour(v))
+}
+
+/** Symbols as on the results map and in the editor: circle source, diamond detector, triangle workstation. */
+export const SYMBOL_COLOURS = { source: '#c2410c', detector: '#0f766e', workstation: '#7c3aed', door: '#2f80ed' } as const
 
 /** Up to three limits to show, mildest first: the lowest exposure limit, a short-term one, the critical level. */
 export function figureLimits(limits: LimitLine[]): LimitLine[] {
@@ -54,12 +68,18 @@ export function floorPanelSvg(input: { plan: Plan; summary: RunSummary; field: F
   const pad = 6
   const scale = (width - 2 * pad) / Math.max(1e-6, b.x1 - b.x0)
   const mapH = (b.y1 - b.y0) * scale
-  const legendH = 30
+  const legendH = 38
   const height = Math.ceil(mapH + 2 * pad + 16 + legendH)
   const X = (x: number) => (pad + (x - b.x0) * scale).toFixed(1)
   const Y = (y: number) => (16 + pad + (b.y1 - y) * scale).toFixed(1)
   const limits = figureLimits(field?.meta.limits ?? summary.limits)
+  const colours = limitColours(limits)
   const parts: string[] = []
+  const roomPoints = (poly: [number, number][]) => poly.map((p) => `${X(p[0])},${Y(p[1])}`).join(' ')
+  // Areas stop at the walls: the fronts are cell-based and would otherwise spill past the outer walls.
+  const clipId = `rooms-${Math.round(timeS * 10)}`
+  parts.push(`<defs><clipPath id="${clipId}">${plan.rooms.map((r) => `<polygon points="${roomPoints(r.polygon)}"/>`).join('')}</clipPath></defs>`)
+  const labelSpots: { x: number; y: number; text: string; colour: string }[] = []
   parts.push(`<rect x="0" y="0" width="${width}" height="${height}" fill="#ffffff"/>`)
   parts.push(`<text x="${pad}" y="12" font-family="Atkinson" font-size="9" font-weight="bold" fill="#14375e">${xmlEscape(input.title)} – t = ${xmlEscape(formatSeconds(timeS))}</text>`)
   for (const r of plan.rooms) {
@@ -77,30 +97,51 @@ export function floorPanelSvg(input: { plan: Plan; summary: RunSummary; field: F
       if (!shape) return
       const d = shape.coordinates.map((poly) => poly.map((ring) =>
         `M${ring.map(([gx, gy]) => `${X(originM[0] + gx! * cellM)},${Y(originM[1] + gy! * cellM)}`).join('L')}Z`).join('')).join('')
-      if (d) parts.push(`<path d="${d}" fill="${COLORS[li]}" fill-opacity="0.75" stroke="${COLORS[li]}" stroke-width="1.2" fill-rule="evenodd"/>`)
+      if (!d) return
+      parts.push(`<g clip-path="url(#${clipId})"><path d="${d}" fill="${colours[li]}" fill-opacity="0.55" stroke="#1b2a3a" stroke-width="0.8" fill-rule="evenodd"/></g>`)
+      // A direct label at the front's northernmost point (the isoline names its limit, no colour look-up needed).
+      let top: [number, number] | null = null
+      for (const poly of shape.coordinates) for (const [gx, gy] of poly[0] ?? []) if (!top || gy! > top[1]) top = [gx!, gy!]
+      if (top) labelSpots.push({ x: Number(X(originM[0] + top[0] * cellM)), y: Number(Y(originM[1] + top[1] * cellM)), text: l.label, colour: colours[li]! })
     })
   } else {
     for (const room of plan.rooms) {
       const s = summary.rooms.find((r) => r.id === room.id)
       let li = -1
       limits.forEach((l, i) => { const t = s?.firstExceedS[l.key]; if (typeof t === 'number' && t <= timeS) li = i })
-      if (li >= 0) parts.push(`<polygon points="${room.polygon.map((p) => `${X(p[0])},${Y(p[1])}`).join(' ')}" fill="${COLORS[li]}" fill-opacity="0.6" stroke="none"/>`)
+      if (li >= 0) parts.push(`<polygon points="${roomPoints(room.polygon)}" fill="${colours[li]}" fill-opacity="0.55" stroke="none"/>`)
     }
   }
   for (const r of plan.rooms) {
     parts.push(`<polygon points="${r.polygon.map((p) => `${X(p[0])},${Y(p[1])}`).join(' ')}" fill="none" stroke="#1b2a3a" stroke-width="1"/>`)
   }
   for (const o of plan.openings) {
-    parts.push(`<line x1="${X(o.segment[0][0])}" y1="${Y(o.segment[0][1])}" x2="${X(o.segment[1][0])}" y2="${Y(o.segment[1][1])}" stroke="${o.kind === 'door' ? '#2f80ed' : '#8a8a8a'}" stroke-width="3"/>`)
+    parts.push(`<line x1="${X(o.segment[0][0])}" y1="${Y(o.segment[0][1])}" x2="${X(o.segment[1][0])}" y2="${Y(o.segment[1][1])}" stroke="${o.kind === 'door' ? SYMBOL_COLOURS.door : '#8a8a8a'}" stroke-width="3"/>`)
   }
-  for (const s of plan.sources) {
-    parts.push(`<rect x="${Number(X(s.position[0])) - 3}" y="${Number(Y(s.position[1])) - 3}" width="6" height="6" fill="#6b2fa0"/>`)
-  }
-  for (const w of plan.workstations) {
-    parts.push(`<circle cx="${X(w.position[0])}" cy="${Y(w.position[1])}" r="2.6" fill="#1b2a3a"/>`)
+  const c = SYMBOL_COLOURS
+  for (const src of plan.sources) {
+    parts.push(`<circle cx="${X(src.position[0])}" cy="${Y(src.position[1])}" r="3.4" fill="${c.source}" stroke="#ffffff" stroke-width="0.8"/>`)
   }
   for (const d of plan.detectors) {
-    parts.push(`<polygon points="${X(d.position[0])},${Number(Y(d.position[1])) - 3.5} ${Number(X(d.position[0])) + 3.2},${Number(Y(d.position[1])) + 2.5} ${Number(X(d.position[0])) - 3.2},${Number(Y(d.position[1])) + 2.5}" fill="#0a7d55"/>`)
+    const x = Number(X(d.position[0])), y = Number(Y(d.position[1]))
+    parts.push(`<polygon points="${x},${y - 3.8} ${x + 3.8},${y} ${x},${y + 3.8} ${x - 3.8},${y}" fill="${c.detector}" stroke="#ffffff" stroke-width="0.8"/>`)
+  }
+  for (const w of plan.workstations) {
+    const x = Number(X(w.position[0])), y = Number(Y(w.position[1]))
+    parts.push(`<polygon points="${x},${y - 3.8} ${x + 3.3},${y + 2.7} ${x - 3.3},${y + 2.7}" fill="${c.workstation}" stroke="#ffffff" stroke-width="0.8"/>`)
+  }
+  // Fronts that meet at one place share one label ("NIOSH REL (TWA) · IDLH") instead of printing over each other.
+  const merged: typeof labelSpots = []
+  for (const spot of labelSpots) {
+    const near = merged.find((m) => Math.abs(m.x - spot.x) < 30 && Math.abs(m.y - spot.y) < 7)
+    if (near) near.text = `${near.text} · ${spot.text}`
+    else merged.push({ ...spot })
+  }
+  for (const spot of merged) {
+    const w = spot.text.length * 2.75 + 3
+    const x = Math.min(spot.x + 2, width - pad - w)
+    parts.push(`<rect x="${x - 1.5}" y="${spot.y - 7.5}" width="${w}" height="7.5" fill="#ffffff" fill-opacity="0.85"/>`)
+    parts.push(`<text x="${x}" y="${spot.y - 2}" font-family="Atkinson" font-size="5.5" fill="#1b2a3a">${xmlEscape(spot.text)}</text>`)
   }
   for (const r of plan.rooms) {
     const cx = r.polygon.reduce((a, p) => a + p[0], 0) / r.polygon.length
@@ -111,11 +152,12 @@ export function floorPanelSvg(input: { plan: Plan; summary: RunSummary; field: F
   const ly = Number((16 + pad + mapH + 10).toFixed(1))
   let lx = pad
   limits.forEach((l, i) => {
-    parts.push(`<rect x="${lx}" y="${ly}" width="9" height="7" fill="${COLORS[i]}"/>`)
+    parts.push(`<rect x="${lx}" y="${ly}" width="9" height="7" fill="${colours[i]}" fill-opacity="0.55" stroke="#1b2a3a" stroke-width="0.6"/>`)
     const label = `beyond ${l.label}`
     parts.push(`<text x="${lx + 12}" y="${ly + 6.5}" font-family="Atkinson" font-size="6.5" fill="#1b2a3a">${xmlEscape(label)}</text>`)
     lx += 22 + label.length * 3.7
   })
-  parts.push(`<text x="${pad}" y="${ly + 18}" font-family="Atkinson" font-size="6" fill="#555555">${xmlEscape(field ? 'Areas from the stored fronts at breathing height; outlines are the fronts.' : 'Whole rooms shaded from the room times (stored fronts unavailable).')} Squares: sources; dots: workstations; triangles: detectors; blue: doors.</text>`)
+  parts.push(`<text x="${pad}" y="${ly + 18}" font-family="Atkinson" font-size="6" fill="#555555">${xmlEscape(field ? 'Areas from the stored fronts at breathing height; outlines are the fronts.' : 'Whole rooms shaded from the room times (stored fronts unavailable).')} Colours as on the results map.</text>`)
+  parts.push(`<text x="${pad}" y="${ly + 26}" font-family="Atkinson" font-size="6" fill="#555555">Circles: sources; diamonds: detectors; triangles: workstations; blue: doors.</text>`)
   return `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}">${parts.join('')}</svg>`
 }
