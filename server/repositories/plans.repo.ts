@@ -1,5 +1,6 @@
 import { sql } from 'kysely'
 import type { Db } from '../db/database'
+import { NOT_A_BUNDLE_CASE } from './runs.repo'
 
 export const insertPlan = (db: Db, p: { orgId: number; floorId: number; floorName: string; siteName: string; runIds: number[]; userId: number }) =>
   db.insertInto('plans')
@@ -92,7 +93,8 @@ export const runsWithSummaries = (db: Db, orgId: number, floorId: number, ids?: 
     .select(['runs.id', 'runs.label', 'runs.finished_at', 'runs.floor_id', 'runs.floor_version', 'run_results.summary'])
     .where('runs.org_id', '=', orgId).where('runs.floor_id', '=', floorId).where('runs.status', '=', 'succeeded')
     .orderBy('runs.id', 'desc').limit(200)
-  if (ids) q = q.where('runs.id', 'in', ids.length ? ids : [-1])
+  // Asked by id (a plan built on a bundle's conservative case) any run counts; the pick list shows nominal runs only.
+  q = ids ? q.where('runs.id', 'in', ids.length ? ids : [-1]) : q.where(NOT_A_BUNDLE_CASE)
   return q.execute()
 }
 

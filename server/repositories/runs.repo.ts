@@ -26,8 +26,11 @@ export const findRunInOrg = (db: Db, orgId: number, id: number) =>
 
 export const findRunById = (db: Db, id: number) => db.selectFrom('runs').selectAll().where('id', '=', id).executeTakeFirst()
 
+/** A sensitivity case of a bundle (not a run the officer started): lists show the nominal run only. */
+export const NOT_A_BUNDLE_CASE = sql<boolean>`not exists (select 1 from run_bundle_members m where m.run_id = runs.id)`
+
 export const listRuns = (db: Db, orgId: number, opts: { floorIds?: number[]; scenarioId?: number; batchId?: number; limit?: number }) => {
-  let q = db.selectFrom('runs').select(LIST_COLUMNS).where('org_id', '=', orgId).orderBy('id', 'desc').limit(opts.limit ?? 200)
+  let q = db.selectFrom('runs').select(LIST_COLUMNS).where('org_id', '=', orgId).where(NOT_A_BUNDLE_CASE).orderBy('id', 'desc').limit(opts.limit ?? 200)
   if (opts.floorIds) q = q.where('floor_id', 'in', opts.floorIds.length ? opts.floorIds : [-1])
   if (opts.scenarioId !== undefined) q = q.where('scenario_id', '=', opts.scenarioId)
   if (opts.batchId !== undefined) q = q.where('batch_id', '=', opts.batchId)
@@ -38,7 +41,7 @@ export const listRuns = (db: Db, orgId: number, opts: { floorIds?: number[]; sce
 export const latestRunsOfScenarios = (db: Db, ids: number[]) =>
   ids.length
     ? db.selectFrom('runs').select(['id', 'scenario_id', 'status', 'progress', 'created_at']).distinctOn('scenario_id')
-      .where('scenario_id', 'in', ids).orderBy('scenario_id').orderBy('id', 'desc').execute()
+      .where('scenario_id', 'in', ids).where(NOT_A_BUNDLE_CASE).orderBy('scenario_id').orderBy('id', 'desc').execute()
     : Promise.resolve([])
 
 /**

@@ -70,6 +70,10 @@ describe('sensitivity bundles', () => {
     }
     expect(b.complete).toBe(true)
     expect(b.cases.every((c) => c.status === 'succeeded')).toBe(true)
+    // Lists show what the officer started: the nominal run, not its cases (they are reached through the bundle).
+    const listed = ((await officer.get(`/api/floors/${floorId}/runs`).expect(200)).body.runs as { id: number }[]).map((r) => r.id)
+    expect(listed).toContain(nominalId)
+    for (const c of b.cases.slice(1)) expect(listed).not.toContain(c.runId)
     // A member answers for its bundle.
     expect(RunBundle.parse((await officer.get(`/api/runs/${b.cases[1]!.runId}/bundle`).expect(200)).body).nominalRunId).toBe(nominalId)
     expect(b.cost.runs).toBe(7)
