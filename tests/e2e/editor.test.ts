@@ -187,6 +187,13 @@ describe('floor-plan editor', () => {
     await expect.poll(() => page.getByTestId('cursor-coords').textContent()).toMatch(/ft/)
     await expect.poll(() => page.getByTestId('zoom-readout').textContent()).toMatch(/^\d+ px\/ft$/)
     await shot(page, 'editor-demo-imperial')
+    // The demo officer is shared with later browser tests, which type metric values: put the preference back.
+    await page.evaluate(async () => {
+      const token = document.cookie.split('; ').find((c) => c.startsWith('dw_csrf='))!.slice('dw_csrf='.length)
+      const res = await fetch('/api/auth/preferences', { method: 'PATCH', headers: { 'content-type': 'application/json', 'x-csrf-token': decodeURIComponent(token) },
+        body: JSON.stringify({ unitSystem: 'metric' }) })
+      if (!res.ok) throw new Error(`metric preference not restored: ${res.status}`)
+    })
     await page.goto(`${server.url}/floors`)
     await expect.poll(() => page.getByText('E2E test building').count()).toBeGreaterThan(0)
     await shot(page, 'floor-list')
