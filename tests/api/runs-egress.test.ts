@@ -1,13 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Runtime } from '../../server/runtime'
-import { insertFloor } from '../../server/repositories/floors.repo'
-import { insertScenario } from '../../server/repositories/scenarios.repo'
-import { checkPlan, isPlanValid } from '../../shared/floorplan/checks'
-import { LIBRARY_GAS_IDS } from '../../shared/floorplan/gas-ids'
-import type { Plan } from '../../shared/floorplan/plan-schema'
 import { EgressResult } from '../../shared/schemas/egress'
-import { RunDetail, ScenarioConfig } from '../../shared/schemas/runs'
+import { RunDetail } from '../../shared/schemas/runs'
 import { apiAgent, createOtherOrg, signIn, startTestRuntime, type ApiAgent } from '../support/test-runtime'
+import { shortcutFloorRun } from './egress-fixtures'
 import { acct, demoFloorAndScenario, waitForRun } from './runs-fixtures'
 
 /**
@@ -25,35 +21,6 @@ beforeAll(async () => {
 })
 afterAll(() => rt.close())
 
-const rect = (x0: number, y0: number, x1: number, y1: number): [number, number][] => [[x0, y0], [x1, y0], [x1, y1], [x0, y1]]
-
-/** Office A beside gas room S; S has its own outside exit (6 m from A's centre), the corridor's stair is ≈ 30 m away. */
-function shortcutPlan(): Plan {
-  return {
-    rooms: [
-      { id: 'A', name: 'Office A', kind: 'other', polygon: rect(0, 0, 4, 4), ventilation: { mode: 'ach', airChangesPerHour: 6 } },
-      { id: 'S', name: 'Gas room S', kind: 'gas_room', polygon: rect(4, 0, 8, 4), ventilation: { mode: 'ach', airChangesPerHour: 6 } },
-      { id: 'C', name: 'Corridor C', kind: 'corridor', polygon: rect(0, 4, 30, 6), ventilation: { mode: 'ach', airChangesPerHour: 4 } },
-    ],
-    openings: [
-      { id: 'd-as', name: 'A–S door', kind: 'door', segment: [[4, 1.5], [4, 2.5]], open: false },
-      { id: 'd-ac', name: 'A–C door', kind: 'door', segment: [[1.5, 4], [2.5, 4]], open: true },
-      { id: 'E1', name: 'Gas room exit', kind: 'door', segment: [[8, 1.5], [8, 2.5]], open: false, exit: 'outdoors' },
-      { id: 'E2', name: 'Stair door', kind: 'door', segment: [[30, 4.5], [30, 5.5]], open: false, exit: 'stair' },
-    ],
-    sources: [
-      // A large ammonia leak (2 mm orifice at the vapour pressure): the 48 m³ gas room is above IDLH within seconds.
-      { id: 'cyl', name: 'NH3 cylinder', kind: 'cylinder', gasId: 'NH3', position: [6, 1], releaseHeightM: 1, inventoryKg: 20, liquefied: true,
-        pressurePa: 8e5, waterVolumeM3: 0.04, restriction: { kind: 'orifice', diameterM: 0.002 }, dischargeCoefficient: 0.62 },
-    ],
-    detectors: [],
-    exhausts: [],
-    workstations: [{ id: 'ws-a', name: 'Desk A', position: [3, 1], breathingHeightM: 1.1 }],
-    underlay: null,
-    assemblyPoints: [{ id: 'ap', name: 'Car park', position: [32, 5] }],
-  }
-}
-
 async function runToEnd(scenarioId: number) {
   const started = await officer.post(`/api/scenarios/${scenarioId}/runs`).expect(202)
   const { run } = await waitForRun(officer, started.body.id, (r) => ['succeeded', 'failed', 'cancelled'].includes(r.status), 120_000)
@@ -63,14 +30,7 @@ async function runToEnd(scenarioId: number) {
 
 describe('GET /api/runs/:id/egress', () => {
   it('on a floor where the short way out crosses the gas room, the longer corridor route is chosen', async () => {
-    const db = rt.ctx.db
-    const site = await db.selectFrom('sites').select('id').where('org_id', '=', orgId).executeTakeFirstOrThrow()
-    const plan = shortcutPlan()
-    const problems = checkPlan(plan, { knownGasIds: LIBRARY_GAS_IDS, ceilingM: 3 })
-    const floor = await insertFloor(db, { orgId, siteId: site.id, name: `Egress shortcut ${Date.now()}`, ceilingHeightM: 3, plan, planValid: isPlanValid(problems), problems, userId: null })
-    const config = ScenarioConfig.parse({ name: 'NH3 2 mm leak', sourceIds: ['cyl'], durationS: 300, outputIntervalS: 10, cellM: 0.25, layers: 6 })
-    const sc = await insertScenario(db, { orgId, floorId: floor.id, name: config.name, config, userId: null })
-    const run = await runToEnd(sc.id)
+    const { run } = await shortcutFloorRun(rt, officer, orgId)
     const s = run.summary!
     expect(s.firstAlarm).toBeNull()
     const gasRoomIdlh = s.rooms.find((r) => r.id === 'S')!.firstExceedS.idlh
@@ -109,7 +69,7 @@ describe('GET /api/runs/:id/egress', () => {
     expect(JSON.stringify(bad.body.error.fields)).toMatch(/discoveryS/)
     const badKey = await officer.get(`/api/runs/${run.id}/egress?limitKey=nope`).expect(400)
     expect(badKey.body.error.fields).toHaveProperty('limitKey')
-    const other = await createOtherOrg(db, rt.ctx.config)
+    const other = await createOtherOrg(rt.ctx.db, rt.ctx.config)
     const outsider = await signIn(rt, other.users.ehs_officer.email, 'other-org-pass-1')
     await outsider.get(`/api/runs/${run.id}/egress`).expect(404)
     await (await apiAgent(rt)).get(`/api/runs/${run.id}/egress`).expect(401)
