@@ -2,6 +2,7 @@ import { contours } from 'd3-contour'
 import type { Plan } from '../floorplan/plan-schema'
 import type { LimitLine, RunFieldsMeta, RunSummary } from '../schemas/runs'
 import { colourScale } from '../runs/display'
+import { SYMBOL_COLOURS } from '../ui/map-symbols'
 import { formatSeconds } from './format'
 import { isCriticalKey, isExposureKey } from './rules'
 
@@ -32,8 +33,6 @@ export function limitColours(limits: LimitLine[]): string[] {
   return ppm.map((v) => scale.colour(v))
 }
 
-/** Symbols as on the results map and in the editor: circle source, diamond detector, triangle workstation. */
-export const SYMBOL_COLOURS = { source: '#c2410c', detector: '#0f766e', workstation: '#7c3aed', door: '#2f80ed' } as const
 
 /** Up to three limits to show, mildest first: the lowest exposure limit, a short-term one, the critical level. */
 export function figureLimits(limits: LimitLine[]): LimitLine[] {
@@ -120,7 +119,7 @@ export function floorPanelSvg(input: { plan: Plan; summary: RunSummary; field: F
   }
   const c = SYMBOL_COLOURS
   for (const src of plan.sources) {
-    parts.push(`<circle cx="${X(src.position[0])}" cy="${Y(src.position[1])}" r="3.4" fill="${c.source}" stroke="#ffffff" stroke-width="0.8"/>`)
+    parts.push(`<circle cx="${X(src.position[0])}" cy="${Y(src.position[1])}" r="3.4" fill="${c.leakingSource}" stroke="#ffffff" stroke-width="0.8"/>`)
   }
   for (const d of plan.detectors) {
     const x = Number(X(d.position[0])), y = Number(Y(d.position[1]))
