@@ -1,31 +1,12 @@
 import type { Request, Response, Router } from 'express'
 import type { z } from 'zod'
-import type { Role } from '../../shared/schemas/common'
 import { AppError, fieldsFromZod, forbidden, unauthorized } from './errors'
 import type { Actor } from './session-user'
+import type { Access, Route } from '../../shared/contract/route'
 
-type Method = 'get' | 'post' | 'put' | 'patch' | 'delete'
-
-/** Who may call a route: 'public' (no sign-in), 'signed-in' (any role), or a list of roles. */
-export type Access = 'public' | 'signed-in' | readonly Role[]
-
-export interface RouteSpec<B extends z.ZodType | undefined, Q extends z.ZodType | undefined, P extends z.ZodType | undefined> {
-  method: Method
-  /** Express path, e.g. /api/users/:id */
-  path: string
-  summary: string
-  tag: string
-  access: Access
-  body?: B
-  query?: Q
-  params?: P
-  /** Schema of a 2xx JSON response, for the OpenAPI document. */
-  response?: z.ZodType
-  status?: number
-  /** Non-JSON body (e.g. multipart upload or a PDF download), described for OpenAPI. */
-  requestContentType?: string
-  responseContentType?: string
-}
+export type { Access }
+/** A route of the contract (shared/contract), as registered and documented. */
+export type RouteSpec = Route<string, any, any, any, any>
 
 type Parsed<T> = T extends z.ZodType ? z.infer<T> : undefined
 
@@ -39,15 +20,14 @@ export interface RouteContext<B, Q, P> {
   actor: Actor
 }
 
-/** Collects specs for the OpenAPI document while registering handlers on an Express router. */
+type ContextOf<T> = T extends Route<string, infer P, infer Q, infer B, any> ? RouteContext<Parsed<B>, Parsed<Q>, Parsed<P>> : never
+
+/** Registers handlers for contract routes on an Express router, and keeps the routes for the OpenAPI document. */
 export class ApiRoutes {
-  readonly specs: RouteSpec<any, any, any>[] = []
+  readonly specs: RouteSpec[] = []
   constructor(readonly router: Router) {}
 
-  add<B extends z.ZodType | undefined = undefined, Q extends z.ZodType | undefined = undefined, P extends z.ZodType | undefined = undefined>(
-    spec: RouteSpec<B, Q, P>,
-    handler: (ctx: RouteContext<Parsed<B>, Parsed<Q>, Parsed<P>>) => Promise<unknown> | unknown,
-  ): void {
+  add<T extends RouteSpec>(spec: T, handler: (ctx: ContextOf<T>) => Promise<unknown> | unknown): void {
     this.specs.push(spec)
     this.router[spec.method](spec.path, async (req, res) => {
       const actor = req.actor
@@ -59,7 +39,7 @@ export class ApiRoutes {
       const params = spec.params ? prefixed(spec.params, req.params, 'params') : undefined
       const query = spec.query ? prefixed(spec.query, req.query, 'query') : undefined
       const body = spec.body ? prefixed(spec.body, req.body ?? {}, 'body') : undefined
-      const out = await handler({ req, res, body, query, params, actor: actor! } as RouteContext<Parsed<B>, Parsed<Q>, Parsed<P>>)
+      const out = await handler({ req, res, body, query, params, actor: actor! } as ContextOf<T>)
       if (res.headersSent) return
       if (out === undefined) res.status(spec.status ?? 204).end()
       else res.status(spec.status ?? 200).json(out)

@@ -1,10 +1,6 @@
 import { ipKeyGenerator, rateLimit } from 'express-rate-limit'
 import type { Request, RequestHandler } from 'express'
-import { API } from '../../shared/api-paths'
-import {
-  AcceptInvitation, Credentials, CsrfToken, ForgotPassword, Preferences, ResetPassword, SessionUser, TokenInfo, TokenQuery,
-} from '../../shared/schemas/auth'
-import { Ok } from '../../shared/schemas/common'
+import { contract } from '../../shared/contract'
 import type { ApiRoutes } from '../http/define-route'
 import { HTTPS_REQUIRED, rotateCsrf } from '../http/csrf'
 import { AppError } from '../http/errors'
@@ -49,19 +45,19 @@ export function authRoutes(api: ApiRoutes, ctx: ServiceContext) {
   // Sign-in counts failures three ways: per account and client, per account from anywhere (a botnet spreading one
   // account's guesses), and per client over all accounts (one client trying many addresses).
   const n = ctx.config.loginRateLimit
-  api.router.post(API.login,
+  api.router.post(contract.auth.login.path,
     limiter({ limit: n, windowMs: MIN15, what: 'sign-in attempts', onlyFailures: true, key: (req) => `ac|${client(req)}|${limiterEmail(req.body?.email)}` }),
     limiter({ limit: 3 * n, windowMs: MIN15, what: 'sign-in attempts for this account', onlyFailures: true, key: (req) => `a|${limiterEmail(req.body?.email)}` }),
     limiter({ limit: 2 * n, windowMs: MIN15, what: 'failed sign-ins from this connection', onlyFailures: true, key: (req) => `c|${client(req)}` }))
   // Reset mail always answers 200, so every request counts: at most 3 mails an hour to one address, 10 requests per client.
-  api.router.post(API.forgot,
+  api.router.post(contract.auth.forgot.path,
     limiter({ limit: 3, windowMs: 60 * 60_000, what: 'password-reset requests for this address', onlyFailures: false, key: (req) => `fa|${limiterEmail(req.body?.email)}` }),
     limiter({ limit: 10, windowMs: MIN15, what: 'password-reset requests', onlyFailures: false, key: (req) => `fc|${client(req)}` }))
 
-  api.add({ method: 'get', path: API.csrf, summary: 'Get the CSRF token (also set as the dw_csrf cookie)', tag: 'auth', access: 'public', response: CsrfToken },
+  api.add(contract.auth.csrf,
     ({ res }) => ({ csrfToken: res.locals.csrfToken as string }))
 
-  api.add({ method: 'post', path: API.login, summary: 'Sign in', tag: 'auth', access: 'public', body: Credentials, response: SessionUser },
+  api.add(contract.auth.login,
     async ({ req, res, body }) => {
       refuseInsecureCookie(req)
       const userId = await auth.checkCredentials(ctx, body.email, body.password)
@@ -71,34 +67,34 @@ export function authRoutes(api: ApiRoutes, ctx: ServiceContext) {
       return auth.sessionUser(ctx, userId)
     })
 
-  api.add({ method: 'post', path: API.logout, summary: 'Sign out', tag: 'auth', access: 'public', response: Ok }, async ({ req, res }) => {
+  api.add(contract.auth.logout, async ({ req, res }) => {
     if (req.session) await destroy(req)
     res.clearCookie('dw_sid', { path: '/' })
     return { ok: true as const }
   })
 
-  api.add({ method: 'get', path: API.me, summary: 'The signed-in user', tag: 'auth', access: 'signed-in', response: SessionUser },
+  api.add(contract.auth.me,
     ({ actor }) => auth.sessionUser(ctx, actor.id))
 
-  api.add({ method: 'patch', path: API.preferences, summary: 'Change display preferences', tag: 'auth', access: 'signed-in', body: Preferences, response: SessionUser },
+  api.add(contract.auth.preferences,
     ({ actor, body }) => auth.setUnitSystem(ctx, actor, body.unitSystem))
 
-  api.add({ method: 'post', path: API.forgot, summary: 'E-mail a password-reset link', tag: 'auth', access: 'public', body: ForgotPassword, response: Ok },
+  api.add(contract.auth.forgot,
     async ({ body }) => {
       await auth.requestPasswordReset(ctx, body.email)
       return { ok: true as const }
     })
 
-  api.add({ method: 'get', path: API.tokenInfo, summary: 'What an invitation or reset link is for', tag: 'auth', access: 'public', query: TokenQuery, response: TokenInfo },
+  api.add(contract.auth.tokenInfo,
     ({ query }) => auth.describeLink(ctx, query.token))
 
-  api.add({ method: 'post', path: API.reset, summary: 'Set a new password from a reset link', tag: 'auth', access: 'public', body: ResetPassword, response: Ok },
+  api.add(contract.auth.reset,
     async ({ body }) => {
       await auth.resetPassword(ctx, body.token, body.password)
       return { ok: true as const }
     })
 
-  api.add({ method: 'post', path: API.acceptInvitation, summary: 'Accept an invitation and sign in', tag: 'auth', access: 'public', body: AcceptInvitation, response: SessionUser },
+  api.add(contract.auth.acceptInvitation,
     async ({ req, res, body }) => {
       refuseInsecureCookie(req)
       const userId = await auth.acceptInvitation(ctx, body)

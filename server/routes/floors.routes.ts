@@ -1,16 +1,12 @@
 import multer from 'multer'
-import { IdParam } from '../../shared/schemas/common'
-import {
-  FLOOR_API, FloorDetail, FloorImage, FloorImageParams, FloorList, FloorUpdate, MAX_FLOOR_IMAGE_BYTES, SavePlanInput,
-  SavePlanResult, ScenarioExportQuery,
-} from '../../shared/schemas/floors'
+import { MAX_FLOOR_IMAGE_BYTES } from '../../shared/schemas/floors'
+import { contract } from '../../shared/contract'
 import type { ApiRoutes } from '../http/define-route'
 import { AppError } from '../http/errors'
 import type { ServiceContext } from '../services/context'
 import * as floors from '../services/floors.service'
 import * as uploads from '../services/uploads.service'
 
-const OFFICERS = ['admin', 'ehs_officer'] as const
 
 // Kept in memory: the bytes go straight into PostgreSQL, and the size limit stops big bodies early (413).
 const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_FLOOR_IMAGE_BYTES, files: 1, fields: 5 } })
@@ -23,36 +19,36 @@ function uploadError(err: unknown): unknown {
 }
 
 export function floorsRoutes(api: ApiRoutes, ctx: ServiceContext) {
-  api.add({ method: 'get', path: FLOOR_API.floors, summary: 'Every floor the caller can see', tag: 'floors', access: 'signed-in', response: FloorList },
+  api.add(contract.floors.list,
     ({ actor }) => floors.listVisibleFloors(ctx, actor))
 
-  api.add({ method: 'get', path: '/api/floors/:id', summary: 'A floor with its plan and the plan checks', tag: 'floors', access: 'signed-in', params: IdParam, response: FloorDetail },
+  api.add(contract.floors.get,
     ({ actor, params }) => floors.getFloor(ctx, actor, params.id))
 
-  api.add({ method: 'patch', path: '/api/floors/:id', summary: 'Rename a floor, change its ceiling or its people', tag: 'floors', access: OFFICERS, params: IdParam, body: FloorUpdate, response: FloorDetail },
+  api.add(contract.floors.update,
     ({ actor, params, body }) => floors.changeFloor(ctx, actor, params.id, body))
 
-  api.add({ method: 'delete', path: '/api/floors/:id', summary: 'Delete a floor', tag: 'floors', access: OFFICERS, params: IdParam },
+  api.add(contract.floors.remove,
     ({ actor, params }) => floors.removeFloor(ctx, actor, params.id))
 
-  api.add({ method: 'put', path: '/api/floors/:id/plan', summary: 'Save the plan (409 stale_version when someone saved since `version`)', tag: 'floors', access: OFFICERS, params: IdParam, body: SavePlanInput, response: SavePlanResult },
+  api.add(contract.floors.savePlan,
     ({ actor, params, body }) => floors.savePlan(ctx, actor, params.id, body.version, body.plan))
 
-  api.add({ method: 'get', path: '/api/floors/:id/scenario', summary: 'The floor as an engine scenario file (400 plan_invalid with the reasons)', tag: 'floors', access: 'signed-in', params: IdParam, query: ScenarioExportQuery },
+  api.add(contract.floors.exportScenario,
     async ({ actor, params, query, res }) => {
       const scenario = await floors.exportScenario(ctx, actor, params.id, query)
       res.setHeader('Content-Disposition', `attachment; filename="floor-${params.id}-scenario.json"`)
       return scenario
     })
 
-  api.add({ method: 'post', path: '/api/floors/:id/images', summary: 'Upload a PNG or JPEG floor plan to trace (at most 10 MB)', tag: 'floors', access: OFFICERS, params: IdParam, response: FloorImage, status: 201, requestContentType: 'multipart/form-data' },
+  api.add(contract.floors.uploadImage,
     async ({ actor, params, req, res }) => {
       // Parsed here, after the role check, so unauthorised callers never get their upload buffered.
       await new Promise<void>((resolve, reject) => upload.single('file')(req, res, (err: unknown) => (err ? reject(uploadError(err)) : resolve())))
       return uploads.uploadFloorImage(ctx, actor, params.id, req.file)
     })
 
-  api.add({ method: 'get', path: '/api/floors/:id/images/:imageId', summary: 'A traced floor-plan image', tag: 'floors', access: 'signed-in', params: FloorImageParams, responseContentType: 'image/png' },
+  api.add(contract.floors.image,
     async ({ actor, params, res }) => {
       const img = await uploads.readFloorImage(ctx, actor, params.id, params.imageId)
       res.setHeader('Content-Type', img.mime)

@@ -1,7 +1,5 @@
 import { sql } from 'kysely'
-import { z } from 'zod'
-import { API } from '../../shared/api-paths'
-import { CapturedMailList, OutgoingMailList } from '../../shared/schemas/mail'
+import { contract } from '../../shared/contract'
 import type { ApiRoutes } from '../http/define-route'
 import { buildOpenApi } from '../http/openapi'
 import type { ServiceContext } from '../services/context'
@@ -16,10 +14,8 @@ export function redactForViewer<M extends { to: string[]; text: string }>(m: M, 
   return text === m.text ? m : { ...m, text }
 }
 
-const Health = z.object({ status: z.enum(['ok', 'degraded']), database: z.enum(['up', 'down']) })
-
 export function systemRoutes(api: ApiRoutes, ctx: ServiceContext) {
-  api.add({ method: 'get', path: API.health, summary: 'Liveness and database state', tag: 'system', access: 'public', response: Health },
+  api.add(contract.system.health,
     async ({ res }) => {
       const up = await Promise.race([
         sql`select 1`.execute(ctx.db).then(() => true, () => false),
@@ -29,15 +25,15 @@ export function systemRoutes(api: ApiRoutes, ctx: ServiceContext) {
       return { status: up ? 'ok' : 'degraded', database: up ? 'up' : 'down' }
     })
 
-  api.add({ method: 'get', path: API.openapi, summary: 'This API as an OpenAPI 3.1 document', tag: 'system', access: 'public' },
+  api.add(contract.system.openapi,
     ({ res }) => { res.json(buildOpenApi(api.specs)) })
 
-  api.add({ method: 'get', path: API.capturedMail, summary: 'Mail received by the local fake SMTP server (demo/dev only)', tag: 'admin', access: ['admin'], response: CapturedMailList },
+  api.add(contract.system.capturedMail,
     async ({ actor }) => ({
       enabled: ctx.mail.fakeSmtpEnabled,
       messages: ctx.mail.fakeSmtpEnabled ? (await ctx.mail.captured(actor.orgId)).map((m) => redactForViewer(m, actor.email)) : [],
     }))
 
-  api.add({ method: 'get', path: API.outgoingMail, summary: 'Delivery state of outgoing mail', tag: 'admin', access: ['admin'], response: OutgoingMailList },
+  api.add(contract.system.outgoingMail,
     async ({ actor }) => ({ messages: await ctx.mail.outgoing(actor.orgId) }))
 }
