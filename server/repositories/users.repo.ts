@@ -18,11 +18,11 @@ export const listUsersInOrg = (db: Db, orgId: number) =>
 
 export const insertUser = (
   db: Db,
-  u: { orgId: number; email: string; name: string; role: Role; status: UsersTable['status']; passwordHash: string | null },
+  u: { id?: number; orgId: number; email: string; name: string; role: Role; status: UsersTable['status']; passwordHash: string | null },
 ) =>
   db
     .insertInto('users')
-    .values({ org_id: u.orgId, email: u.email.toLowerCase(), name: u.name, role: u.role, status: u.status, password_hash: u.passwordHash })
+    .values({ ...(u.id === undefined ? {} : { id: u.id }), org_id: u.orgId, email: u.email.toLowerCase(), name: u.name, role: u.role, status: u.status, password_hash: u.passwordHash })
     .returningAll()
     .executeTakeFirstOrThrow()
 

@@ -1,13 +1,14 @@
 import type { AcceptInvitation, SessionUser, TokenInfo, UnitSystem } from '../../shared/schemas/auth'
-import { AppError, notFound } from '../http/errors'
+import { AppError, conflict, gone, notFound } from '../http/errors'
 import type { Actor } from '../http/session-user'
 import { composeMail } from '../mail/compose'
 import { appendAudit } from '../repositories/audit.repo'
 import { findOrg } from '../repositories/orgs.repo'
-import { deleteSessionsOfUser, findActiveUserById, findUserByEmail, findUserById, listUsersInOrg, updateUser } from '../repositories/users.repo'
+import { consumeInvitation } from '../repositories/invitations.repo'
+import { deleteSessionsOfUser, findActiveUserById, findUserByEmail, findUserById, insertUser, listUsersInOrg, updateUser } from '../repositories/users.repo'
 import type { ServiceContext } from './context'
 import { burnVerify, hashPassword, verifyPassword } from './passwords'
-import { inspectLink, issueLink, redeemLink } from './signed-links'
+import { INVITATION_PURPOSE, inspectInvitationLink, inspectLink, issueLink, redeemLink } from './signed-links'
 
 const RESET_TTL_S = 3600
 
@@ -50,6 +51,11 @@ export async function requestPasswordReset(ctx: ServiceContext, email: string): 
 }
 
 export async function describeLink(ctx: ServiceContext, token: string): Promise<TokenInfo> {
+  if (token.split('.')[2] === INVITATION_PURPOSE) {
+    const invitation = await inspectInvitationLink(ctx.db, ctx.linkSecret, token)
+    const org = await findOrg(ctx.db, invitation.org_id)
+    return { purpose: 'invite', email: invitation.email, name: invitation.name, orgName: org?.name ?? '' }
+  }
   const purpose = token.split('.')[2] === 'reset' ? 'reset' : 'invite'
   const row = await inspectLink(ctx.db, ctx.linkSecret, token, purpose)
   const u = await findUserById(ctx.db, row.user_id)
@@ -84,14 +90,33 @@ async function tellOtherAdmins(ctx: ServiceContext, u: { id: number; org_id: num
   }
 }
 
-/** Sets name and password for an invited account and activates it; returns the user id to sign in. */
+/**
+ * Accepting an invitation creates the account in the inviting organization, with the invitation's id and role and
+ * the name and password chosen; returns the user id to sign in. Links of invited accounts made before invitations
+ * were stored apart (purpose 'invite') still activate their account.
+ */
 export async function acceptInvitation(ctx: ServiceContext, input: AcceptInvitation): Promise<number> {
+  if (input.token.split('.')[2] === INVITATION_PURPOSE) return joinByInvitation(ctx, input)
   const row = await redeemLink(ctx.db, ctx.linkSecret, input.token, 'invite')
   const u = await findUserById(ctx.db, row.user_id)
   if (u.status === 'deactivated') throw new AppError(403, 'deactivated', 'This account has been deactivated')
   await updateUser(ctx.db, u.org_id, u.id, { name: input.name, status: 'active', password_hash: await hashPassword(input.password, ctx.config.argon2) })
   await appendAudit(ctx.db, { orgId: u.org_id, actorId: u.id, action: 'user.joined', targetType: 'user', targetId: u.id })
   return u.id
+}
+
+async function joinByInvitation(ctx: ServiceContext, input: AcceptInvitation): Promise<number> {
+  const invitation = await inspectInvitationLink(ctx.db, ctx.linkSecret, input.token)
+  if (invitation.status === 'revoked') throw new AppError(403, 'deactivated', 'This account has been deactivated')
+  const passwordHash = await hashPassword(input.password, ctx.config.argon2)
+  return ctx.db.transaction().execute(async (trx) => {
+    if (!(await consumeInvitation(trx, invitation.id))) throw gone('This link has already been used.')
+    // One organization per address: an address that has since got an account elsewhere cannot join a second one.
+    if (await findUserByEmail(trx, invitation.email)) throw conflict('This address already has a Driftwarden account: sign in with it instead', 'email_taken')
+    const user = await insertUser(trx, { id: invitation.id, orgId: invitation.org_id, email: invitation.email, name: input.name, role: invitation.role, status: 'active', passwordHash })
+    await appendAudit(trx, { orgId: user.org_id, actorId: user.id, action: 'user.joined', targetType: 'user', targetId: user.id })
+    return user.id
+  })
 }
 
 export async function setUnitSystem(ctx: ServiceContext, actor: Actor, unitSystem: UnitSystem) {

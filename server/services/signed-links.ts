@@ -2,6 +2,7 @@ import { createHash, createHmac, randomBytes, timingSafeEqual } from 'node:crypt
 import type { Db } from '../db/database'
 import { gone } from '../http/errors'
 import { consumeToken, findToken, insertToken, retireTokens } from '../repositories/tokens.repo'
+import { findInvitationById } from '../repositories/invitations.repo'
 
 export type LinkPurpose = 'invite' | 'reset'
 
@@ -59,5 +60,25 @@ export async function inspectLink(db: Db, secret: string, token: string, purpose
 export async function redeemLink(db: Db, secret: string, token: string, purpose: LinkPurpose) {
   const row = await inspectLink(db, secret, token, purpose)
   if (!(await consumeToken(db, row.id))) throw gone('This link has already been used.')
+  return row
+}
+
+/** The purpose of an invitation link (the id is the invitation's, not an auth token's; older 'invite' links name a token). */
+export const INVITATION_PURPOSE = 'join'
+
+/** A fresh nonce for a link whose record is stored elsewhere (invitations); sign it once the record has its id. */
+export function draftLink(ttlSeconds: number) {
+  const nonce = randomBytes(18).toString('base64url')
+  const expiresAt = new Date(Date.now() + ttlSeconds * 1000)
+  return { nonceHash: hashNonce(nonce), expiresAt, sign: (secret: string, id: number) => signToken(secret, id, nonce, INVITATION_PURPOSE, expiresAt) }
+}
+
+/** Checks an invitation link against its stored record without using it; throws 410 when invalid, used or expired. */
+export async function inspectInvitationLink(db: Db, secret: string, token: string) {
+  const { id, nonceHash } = verifyTokenSignature(secret, token, INVITATION_PURPOSE, new Date())
+  const row = await findInvitationById(db, id)
+  if (!row || row.nonce_hash === null || row.nonce_hash !== nonceHash) throw gone('This link is not valid any more. Ask for a new one.')
+  if (row.used_at || row.status === 'accepted') throw gone('This link has already been used.')
+  if (new Date(row.expires_at).getTime() < Date.now()) throw gone('This link has expired. Ask for a new one.')
   return row
 }
