@@ -35,24 +35,44 @@ export const useRunsStore = defineStore('runs', () => {
     const [f, sc, rs] = await Promise.all([floorsApi.getFloor(id), runsApi.listScenarios(id), runsApi.listFloorRuns(id)])
     floor.value = f; scenarios.value = sc; runs.value = rs
   })
-  const refreshRuns = async (floorId: number) => { runs.value = await runsApi.listFloorRuns(floorId); scenarios.value = await runsApi.listScenarios(floorId) }
+  // A list read that started before a save must not put the older record back when it lands after it.
+  let listEpoch = 0
+  const refreshRuns = async (floorId: number) => {
+    const epoch = listEpoch
+    runs.value = await runsApi.listFloorRuns(floorId)
+    const listed = await runsApi.listScenarios(floorId)
+    if (epoch === listEpoch) scenarios.value = listed
+  }
 
   /**
-   * Sends the updatedAt of the scenario as listed; on 409 stale_version the list is read again (so Save once more
-   * is a deliberate overwrite) and the message says so, while the form keeps what was typed.
+   * The version the editor sends: the updatedAt of the scenario as it was put into the form (or last saved from it),
+   * never what the list refreshed every second during runs holds now, which would hide someone else's save.
+   */
+  const editVersions = new Map<number, string>()
+  function beginEdit(s: ScenarioRecord) { editVersions.set(s.id, s.updatedAt) }
+
+  /**
+   * On 409 stale_version the list is read again and its version becomes the form's (so Save once more is a
+   * deliberate overwrite) and the message says so, while the form keeps what was typed.
    */
   async function changeScenario(floorId: number, id: number, config: ScenarioConfig) {
     try {
-      return await runsApi.updateScenario(id, config, scenarios.value.find((s) => s.id === id)?.updatedAt)
+      const saved = await runsApi.updateScenario(id, config, editVersions.get(id) ?? scenarios.value.find((s) => s.id === id)?.updatedAt)
+      editVersions.set(id, saved.updatedAt)
+      return saved
     } catch (e) {
       if (!(e instanceof ApiError) || e.code !== 'stale_version') throw e
+      listEpoch++
       scenarios.value = await runsApi.listScenarios(floorId).catch(() => scenarios.value)
+      const current = scenarios.value.find((s) => s.id === id)
+      if (current) editVersions.set(id, current.updatedAt)
       throw new ApiError(e.status, e.code, `${e.message} Your settings are still in the form: save again to put them over theirs, or press Edit on the scenario to start from theirs.`, e.fields)
     }
   }
   /** Throws ApiError (400 with fields) so the form can show them. */
   async function saveScenario(floorId: number, config: ScenarioConfig, id?: number) {
     const saved = id ? await changeScenario(floorId, id, config) : await runsApi.createScenario(floorId, config)
+    listEpoch++
     scenarios.value = [...scenarios.value.filter((s) => s.id !== saved.id), saved].sort((a, b) => a.name.localeCompare(b.name))
     return saved
   }
@@ -122,7 +142,7 @@ export const useRunsStore = defineStore('runs', () => {
 
   return {
     floors, floor, scenarios, runs, run, fields, series, sweep, proposal, error, loading,
-    loadFloors, loadFloor, refreshRuns, saveScenario, startRun, openRun, cancelRun, stopPolling, startSweep, openSweep, loadComparison, propose, acceptProposal,
+    loadFloors, loadFloor, refreshRuns, beginEdit, saveScenario, startRun, openRun, cancelRun, stopPolling, startSweep, openSweep, loadComparison, propose, acceptProposal,
   }
 })
 
