@@ -1,6 +1,6 @@
 import { randomBytes, timingSafeEqual } from 'node:crypto'
 import type { Request, RequestHandler, Response } from 'express'
-import { CSRF_COOKIE, CSRF_HEADER } from '../../shared/api-paths'
+import { CSRF_COOKIE, CSRF_HEADER } from '../../shared/contract/csrf'
 import { AppError } from './errors'
 
 export function readCookie(req: Request, name: string): string | undefined {

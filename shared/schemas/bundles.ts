@@ -41,7 +41,3 @@ export type RunBundle = z.infer<typeof RunBundle>
 /** GET /api/runs/:id/bundle/fronts: which limit's fronts. */
 export const BundleFrontsQuery = z.object({ limitKey: z.string().trim().min(1, 'Required').max(64) })
 
-export const BUNDLE_API = {
-  runBundle: (id: number) => `/api/runs/${id}/bundle`,
-  bundleFronts: (id: number) => `/api/runs/${id}/bundle/fronts`,
-} as const

@@ -216,16 +216,3 @@ export const ConfirmInfo = z.object({
   drillTitle: z.string(), localStart: z.string(), location: z.string(), name: z.string(), status: DrillStatus, alreadyConfirmed: z.boolean(),
 })
 
-export const DRILL_API = {
-  drills: '/api/drills',
-  drill: (id: number) => `/api/drills/${id}`,
-  cancel: (id: number) => `/api/drills/${id}/cancel`,
-  record: (id: number) => `/api/drills/${id}/record`,
-  findings: (id: number) => `/api/drills/${id}/findings`,
-  finding: (id: number) => `/api/drill-findings/${id}`,
-  pdf: (id: number) => `/api/drills/${id}/pdf`,
-  overview: '/api/drills/overview',
-  siteFrequency: (siteId: number) => `/api/drills/site-frequency/${siteId}`,
-  confirm: '/api/drills/confirm',
-  people: '/api/drills/people',
-} as const

@@ -2,20 +2,6 @@ import { z } from 'zod'
 import { Plan } from '../floorplan/plan-schema'
 import { DbId, Name, PathId, Role } from './common'
 
-/** API paths of sites, floors and their images (client and server both build URLs from here). */
-export const FLOOR_API = {
-  sites: '/api/sites',
-  site: (id: number) => `/api/sites/${id}`,
-  siteFloors: (id: number) => `/api/sites/${id}/floors`,
-  people: '/api/sites/people',
-  floors: '/api/floors',
-  floor: (id: number) => `/api/floors/${id}`,
-  floorPlan: (id: number) => `/api/floors/${id}/plan`,
-  floorScenario: (id: number) => `/api/floors/${id}/scenario`,
-  floorImages: (id: number) => `/api/floors/${id}/images`,
-  floorImage: (floorId: number, imageId: number) => `/api/floors/${floorId}/images/${imageId}`,
-} as const
-
 /** Largest floor-plan image accepted, bytes (10 MB). */
 export const MAX_FLOOR_IMAGE_BYTES = 10 * 1024 * 1024
 export const FLOOR_IMAGE_TYPES = ['image/png', 'image/jpeg'] as const

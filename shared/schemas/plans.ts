@@ -246,20 +246,6 @@ export const PlanVersionParams = z.object({ id: PathId, version: PathId })
 export const AuditItem = z.object({ at: z.string(), actor: z.string().nullable(), action: z.string(), detail: z.record(z.string(), z.unknown()) })
 export const AuditList = z.object({ entries: z.array(AuditItem) })
 
-export const PLAN_API = {
-  plans: '/api/plans',
-  plan: (id: number) => `/api/plans/${id}`,
-  draft: (id: number) => `/api/plans/${id}/draft`,
-  publish: (id: number) => `/api/plans/${id}/publish`,
-  refresh: (id: number) => `/api/plans/${id}/refresh`,
-  version: (id: number, v: number) => `/api/plans/${id}/versions/${v}`,
-  acknowledge: (id: number, v: number) => `/api/plans/${id}/versions/${v}/acknowledgments`,
-  pdf: (id: number, v: number) => `/api/plans/${id}/versions/${v}/pdf`,
-  audit: (id: number) => `/api/plans/${id}/audit`,
-  /** Succeeded runs of a floor that a plan can be generated from. */
-  floorRuns: (floorId: number) => `/api/plans/runs-of-floor/${floorId}`,
-} as const
-
 export const RunChoice = z.object({
   id: z.number().int(), label: z.string(), finishedAt: z.string().nullable(), gasName: z.string(),
   /** Detectors on the floor when the run was computed, and whether the floor plan has been saved since. */

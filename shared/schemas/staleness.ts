@@ -70,12 +70,6 @@ export const PlanUpdateState = z.object({
 }).nullable()
 export type PlanUpdateState = z.infer<typeof PlanUpdateState>
 
-export const STALENESS_API = {
-  bringUpToDate: (planId: number) => `/api/plans/${planId}/bring-up-to-date`,
-  update: (planId: number) => `/api/plans/${planId}/update`,
-  reviewInterval: (siteId: number) => `/api/sites/${siteId}/review-interval`,
-} as const
-
 export const ReviewIntervalInput = z.object({
   /** Days after which a plan's acknowledgments are due again even when nothing changed. */
   days: z.number().int().min(7, 'At least 7 days').max(1825, 'At most 5 years'),

@@ -1,25 +1,20 @@
-import { API } from '../../shared/api-paths'
-import {
-  type AcceptInvitation,
-  type Credentials,
-  type Preferences,
-  SessionUser,
-  TokenInfo,
-} from '../../shared/schemas/auth'
-import { Ok } from '../../shared/schemas/common'
-import { http } from './http'
+import { contract } from '../../shared/contract'
+import type { AcceptInvitation, Credentials, Preferences } from '../../shared/schemas/auth'
+import { call } from './http'
+
+const c = contract.auth
 
 export const authApi = {
   /** The signed-in user; throws ApiError 401 when signed out. */
-  me: () => http.get(API.me, { schema: SessionUser, expectUnauthorized: true }),
-  login: (credentials: Credentials) => http.post(API.login, credentials, { schema: SessionUser, expectUnauthorized: true }),
-  logout: () => http.post(API.logout),
-  updatePreferences: (preferences: Preferences) => http.patch(API.preferences, preferences),
+  me: () => call(c.me, { expectUnauthorized: true }),
+  login: (credentials: Credentials) => call(c.login, { body: credentials }),
+  logout: () => call(c.logout),
+  updatePreferences: (preferences: Preferences) => call(c.preferences, { body: preferences }),
   /** Always answers ok, whether or not the address has an account. */
-  requestPasswordReset: (email: string) => http.post(API.forgot, { email }, { schema: Ok }),
+  requestPasswordReset: (email: string) => call(c.forgot, { body: { email } }),
   /** What an invitation or reset link is for; 400/410 when it is malformed, used or expired. */
-  tokenInfo: (token: string) => http.get(API.tokenInfo, { query: { token }, schema: TokenInfo }),
-  resetPassword: (token: string, password: string) => http.post(API.reset, { token, password }, { schema: Ok }),
+  tokenInfo: (token: string) => call(c.tokenInfo, { query: { token } }),
+  resetPassword: (token: string, password: string) => call(c.reset, { body: { token, password } }),
   /** Creates the account and signs it in. */
-  acceptInvitation: (input: AcceptInvitation) => http.post(API.acceptInvitation, input, { schema: SessionUser }),
+  acceptInvitation: (input: AcceptInvitation) => call(c.acceptInvitation, { body: input }),
 }

@@ -1,6 +1,7 @@
-import type { ZodType } from 'zod'
-import { API, CSRF_COOKIE, CSRF_HEADER } from '../../shared/api-paths'
-import { CsrfToken } from '../../shared/schemas/auth'
+import type { z, ZodType } from 'zod'
+import { contract } from '../../shared/contract'
+import { CSRF_COOKIE, CSRF_HEADER } from '../../shared/contract/csrf'
+import { pathOf, type PathParams, type Route } from '../../shared/contract/route'
 import { ErrorBody } from '../../shared/schemas/common'
 
 /** Any failed API call: HTTP status (0 when the server could not be reached), error code, message, field messages. */
@@ -27,9 +28,11 @@ export function toApiError(error: unknown): ApiError {
 
 type Method = 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE'
 
-export interface RequestOptions<T> {
+interface RequestOptions<T> {
   method?: Method
   body?: unknown
+  /** A multipart body (file upload), sent as is. */
+  form?: FormData
   query?: Record<string, string | number | boolean | undefined>
   /** When given, the response body is checked against it and the parsed value returned. */
   schema?: ZodType<T>
@@ -56,7 +59,7 @@ function readCookie(name: string): string | undefined {
 export async function ensureCsrfCookie(force = false): Promise<string> {
   const existing = readCookie(CSRF_COOKIE)
   if (existing && !force) return existing
-  const { csrfToken } = await request(API.csrf, { schema: CsrfToken })
+  const { csrfToken } = await call(contract.auth.csrf)
   csrfTokenFromBody = csrfToken
   return readCookie(CSRF_COOKIE) ?? csrfToken
 }
@@ -83,14 +86,14 @@ async function errorFrom(response: Response): Promise<ApiError> {
 async function send(path: string, options: RequestOptions<unknown>): Promise<Response> {
   const method = options.method ?? 'GET'
   const headers: Record<string, string> = { accept: 'application/json' }
-  if (options.body !== undefined) headers['content-type'] = 'application/json'
+  if (options.body !== undefined && !options.form) headers['content-type'] = 'application/json'
   if (method !== 'GET') headers[CSRF_HEADER] = readCookie(CSRF_COOKIE) ?? csrfTokenFromBody ?? (await ensureCsrfCookie())
   try {
     return await fetch(withQuery(path, options.query), {
       method,
       headers,
       credentials: 'same-origin',
-      body: options.body === undefined ? undefined : JSON.stringify(options.body),
+      body: options.form ?? (options.body === undefined ? undefined : JSON.stringify(options.body)),
       signal: options.signal,
     })
   } catch (error) {
@@ -99,8 +102,8 @@ async function send(path: string, options: RequestOptions<unknown>): Promise<Res
   }
 }
 
-/** One JSON request; throws ApiError on any failure. */
-export async function request<T = unknown>(path: string, options: RequestOptions<T> = {}): Promise<T> {
+/** Sends a request; answers the response when 2xx, throws ApiError otherwise (401 reported unless expected). */
+async function respond(path: string, options: RequestOptions<unknown>): Promise<Response> {
   let response = await send(path, options)
   // A stale or missing CSRF cookie (e.g. after the server restarted) is fixed by fetching a new one, once.
   if (response.status === 403 && options.method && options.method !== 'GET') {
@@ -115,6 +118,11 @@ export async function request<T = unknown>(path: string, options: RequestOptions
     if (error.status === 401 && !options.expectUnauthorized) unauthorizedHandler?.()
     throw error
   }
+  return response
+}
+
+async function request<T = unknown>(path: string, options: RequestOptions<T> = {}): Promise<T> {
+  const response = await respond(path, options)
   const body: unknown = response.status === 204 ? undefined : await response.json().catch(() => undefined)
   if (!options.schema) return body as T
   const parsed = options.schema.safeParse(body)
@@ -122,12 +130,56 @@ export async function request<T = unknown>(path: string, options: RequestOptions
   return parsed.data
 }
 
-type Options<T> = Omit<RequestOptions<T>, 'method' | 'body'>
+type AnyRoute = Route<string, any, any, any, any>
+type HasKeys<T> = keyof T extends never ? false : true
 
-export const http = {
-  get: <T = unknown>(path: string, options?: Options<T>) => request<T>(path, { ...options, method: 'GET' }),
-  post: <T = unknown>(path: string, body?: unknown, options?: Options<T>) => request<T>(path, { ...options, method: 'POST', body }),
-  patch: <T = unknown>(path: string, body?: unknown, options?: Options<T>) => request<T>(path, { ...options, method: 'PATCH', body }),
-  put: <T = unknown>(path: string, body?: unknown, options?: Options<T>) => request<T>(path, { ...options, method: 'PUT', body }),
-  delete: <T = unknown>(path: string, options?: Options<T>) => request<T>(path, { ...options, method: 'DELETE' }),
+/** What a call of route T needs: path parameters, query and body typed from the contract. */
+export type CallInput<T> = T extends Route<infer Path, any, infer Q, infer B, any>
+  ? (HasKeys<PathParams<Path>> extends true ? { params: PathParams<Path> } : { params?: undefined })
+    & (Q extends ZodType ? { query?: Partial<z.input<Q>> } : { query?: undefined })
+    & (B extends ZodType ? { body: z.input<B> } : { body?: undefined })
+    & {
+      /** A multipart body (uploads), instead of JSON. */
+      form?: FormData
+      signal?: AbortSignal
+      /** A 401 is an expected answer here (me, login, public links), so do not treat it as "session expired". */
+      expectUnauthorized?: boolean
+    }
+  : never
+/** The parsed answer of route T: its response schema's output, or nothing. */
+export type CallOutput<T> = T extends Route<string, any, any, any, infer R> ? (R extends ZodType ? z.output<R> : unknown) : never
+
+type Args<T> = object extends CallInput<T> ? [input?: CallInput<T>] : [input: CallInput<T>]
+
+function optionsOf(r: AnyRoute, input: CallInput<AnyRoute> | undefined): { url: string; options: RequestOptions<unknown> } {
+  const url = pathOf(r, (input?.params ?? {}) as PathParams<string>)
+  const options: RequestOptions<unknown> = {
+    method: r.method.toUpperCase() as Method,
+    body: input?.body,
+    form: input?.form,
+    query: input?.query as RequestOptions<unknown>['query'],
+    // Public routes answer 401 only for what they were sent (a wrong password), never for an ended session.
+    expectUnauthorized: input?.expectUnauthorized ?? r.access === 'public',
+    signal: input?.signal,
+  }
+  return { url, options }
 }
+
+/**
+ * The one way to call the API: `call(contract.floors.update, { params: { id }, body })`. Builds the URL from the
+ * route's path, sends the CSRF header, parses errors into ApiError, reports an unexpected 401, and checks the answer
+ * against the route's response schema.
+ */
+export async function call<T extends AnyRoute>(r: T, ...[input]: Args<T>): Promise<CallOutput<T>> {
+  const { url, options } = optionsOf(r, input as CallInput<AnyRoute> | undefined)
+  return request(url, { ...options, schema: r.response as ZodType | undefined }) as Promise<CallOutput<T>>
+}
+
+/** A binary answer (Float32 planes), with the same error handling as `call`. */
+export async function callBytes<T extends AnyRoute>(r: T, ...[input]: Args<T>): Promise<ArrayBuffer> {
+  const { url, options } = optionsOf(r, input as CallInput<AnyRoute> | undefined)
+  return (await respond(url, { ...options, expectUnauthorized: input?.expectUnauthorized ?? false })).arrayBuffer()
+}
+
+/** The URL of a route for a link or an <img> (PDF downloads, floor images). */
+export const urlOf = <T extends AnyRoute>(r: T, params: PathParams<T['path']>) => pathOf(r, params)

@@ -1,22 +1,23 @@
-import { z } from 'zod'
-import {
-  AckRecord, AuditList, PLAN_API, PlanContent, PlanDetail, PlanList, PlanStatus, RunChoiceList, type NewPlan,
-} from '../../shared/schemas/plans'
-import { http } from './http'
+import { contract } from '../../shared/contract'
+import type { NewPlan, PlanContent } from '../../shared/schemas/plans'
+import { call, urlOf } from './http'
 
-const VersionBody = z.object({ version: z.number().int(), status: PlanStatus, contentHash: z.string().nullable(), content: PlanContent })
+const c = contract.plans
 
 export const plansApi = {
-  list: async () => (await http.get(PLAN_API.plans, { schema: PlanList })).plans,
-  runsOfFloor: async (floorId: number) => (await http.get(PLAN_API.floorRuns(floorId), { schema: RunChoiceList })).runs,
-  create: (input: NewPlan) => http.post(PLAN_API.plans, input, { schema: PlanDetail }),
-  get: (id: number) => http.get(PLAN_API.plan(id), { schema: PlanDetail }),
-  version: (id: number, v: number) => http.get(PLAN_API.version(id, v), { schema: VersionBody }),
+  list: async () => (await call(c.list)).plans,
+  runsOfFloor: async (floorId: number) => (await call(c.runsOfFloor, { params: { floorId } })).runs,
+  create: (input: NewPlan) => call(c.create, { body: input }),
+  get: (id: number) => call(c.get, { params: { id } }),
+  version: (id: number, v: number) => call(c.version, { params: { id, version: v } }),
   /** With `updatedAt` (of the version the edit started from): 409 stale_version when saved, refreshed or published since. */
-  saveDraft: (id: number, content: PlanContent, updatedAt?: string) => http.put(PLAN_API.draft(id), { content, updatedAt }, { schema: PlanDetail }),
-  refresh: (id: number, runIds: number[]) => http.post(PLAN_API.refresh(id), { runIds }, { schema: PlanDetail }),
-  publish: (id: number, ackDueDays: number) => http.post(PLAN_API.publish(id), { ackDueDays }, { schema: PlanDetail }),
-  acknowledge: (id: number, v: number, comment: string) => http.post(PLAN_API.acknowledge(id, v), { comment }, { schema: AckRecord }),
-  audit: async (id: number) => (await http.get(PLAN_API.audit(id), { schema: AuditList })).entries,
-  pdfUrl: (id: number, v: number) => PLAN_API.pdf(id, v),
+  saveDraft: (id: number, content: PlanContent, updatedAt?: string) => call(c.saveDraft, { params: { id }, body: { content, updatedAt } }),
+  refresh: (id: number, runIds: number[]) => call(c.refresh, { params: { id }, body: { runIds } }),
+  publish: (id: number, ackDueDays: number) => call(c.publish, { params: { id }, body: { ackDueDays } }),
+  acknowledge: (id: number, v: number, comment: string) => call(c.acknowledge, { params: { id, version: v }, body: { comment } }),
+  audit: async (id: number) => (await call(c.audit, { params: { id } })).entries,
+  pdfUrl: (id: number, v: number) => urlOf(c.pdf, { id, version: v }),
+  /** The latest bring-up-to-date request of a plan (null when none). */
+  updateState: (id: number) => call(contract.staleness.update, { params: { id } }),
+  bringUpToDate: (id: number, input: { publish?: boolean; ackDueDays?: number }) => call(contract.staleness.bringUpToDate, { params: { id }, body: input }),
 }

@@ -1,7 +1,7 @@
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { CSRF_HEADER } from '../../shared/api-paths'
-import { FLOOR_API } from '../../shared/schemas/floors'
+import { CSRF_HEADER } from '../../shared/contract/csrf'
+import { contract, pathOf } from '../../shared/contract'
 import type { Runtime } from '../../server/runtime'
 import { findUserByEmail, insertUser } from '../../server/repositories/users.repo'
 import { hashPassword } from '../../server/services/passwords'
@@ -99,11 +99,11 @@ describe('floor-plan image dimensions', () => {
     const fx = await planFixture(rt)
     const officer = await signIn(rt, officerAcct.email, officerAcct.password)
     for (const [bytes, name] of [[png(50_000, 50_000), 'huge.png'], [jpeg(50_000, 50_000), 'huge.jpg'], [png(20_000, 100), 'long.png']] as const) {
-      const res = await officer.post(FLOOR_API.floorImages(fx.floorId)).attach('file', bytes, { filename: name })
+      const res = await officer.post(pathOf(contract.floors.uploadImage, { id: fx.floorId })).attach('file', bytes, { filename: name })
       expect(res.status, name).toBe(400)
       expect(res.body.error.fields.file, name).toBeTruthy()
     }
-    await officer.post(FLOOR_API.floorImages(fx.floorId)).attach('file', png(4000, 3000), { filename: 'plan.png' }).expect(201)
-    await officer.post(FLOOR_API.floorImages(fx.floorId)).attach('file', jpeg(6000, 4000), { filename: 'plan.jpg' }).expect(201)
+    await officer.post(pathOf(contract.floors.uploadImage, { id: fx.floorId })).attach('file', png(4000, 3000), { filename: 'plan.png' }).expect(201)
+    await officer.post(pathOf(contract.floors.uploadImage, { id: fx.floorId })).attach('file', jpeg(6000, 4000), { filename: 'plan.jpg' }).expect(201)
   })
 })

@@ -1,6 +1,6 @@
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { CSRF_HEADER } from '../../shared/api-paths'
+import { CSRF_HEADER } from '../../shared/contract/csrf'
 import type { Runtime } from '../../server/runtime'
 import { listCapturedTo } from '../../server/repositories/mail.repo'
 import { findUserByEmail, insertUser } from '../../server/repositories/users.repo'

@@ -2,7 +2,8 @@ import { deflateSync } from 'node:zlib'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Runtime } from '../../server/runtime'
 import { DEMO_ACCOUNTS } from '../../server/seed/demo-accounts'
-import { FLOOR_API, MAX_FLOOR_IMAGE_BYTES } from '../../shared/schemas/floors'
+import { contract, pathOf } from '../../shared/contract'
+import { MAX_FLOOR_IMAGE_BYTES } from '../../shared/schemas/floors'
 import { createOtherOrg, signIn, startTestRuntime, type ApiAgent } from '../support/test-runtime'
 
 const acct = (role: string) => DEMO_ACCOUNTS.find((a) => a.role === role)!
@@ -37,54 +38,54 @@ let floorId: number
 beforeAll(async () => {
   rt = await startTestRuntime()
   officer = await signIn(rt, acct('ehs_officer').email, acct('ehs_officer').password)
-  const siteId = (await officer.post(FLOOR_API.sites).send({ name: `Upload site ${Date.now()}` }).expect(201)).body.id
-  const staffId = (await officer.get(FLOOR_API.people)).body.people.find((p: { role: string }) => p.role === 'staff').id
-  floorId = (await officer.post(FLOOR_API.siteFloors(siteId)).send({ name: 'Traced', ceilingHeightM: 3, memberIds: [staffId] }).expect(201)).body.id
+  const siteId = (await officer.post(contract.sites.create.path).send({ name: `Upload site ${Date.now()}` }).expect(201)).body.id
+  const staffId = (await officer.get(contract.sites.people.path)).body.people.find((p: { role: string }) => p.role === 'staff').id
+  floorId = (await officer.post(pathOf(contract.sites.createFloor, { id: siteId })).send({ name: 'Traced', ceilingHeightM: 3, memberIds: [staffId] }).expect(201)).body.id
 })
 afterAll(() => rt.close())
 
 describe('POST /api/floors/:id/images', () => {
   it('accepts a PNG, stores its bytes and serves them back with its type', async () => {
     const png = tinyPng()
-    const res = await officer.post(FLOOR_API.floorImages(floorId)).attach('file', png, { filename: 'plan.png', contentType: 'image/png' }).expect(201)
+    const res = await officer.post(pathOf(contract.floors.uploadImage, { id: floorId })).attach('file', png, { filename: 'plan.png', contentType: 'image/png' }).expect(201)
     expect(res.body).toMatchObject({ floorId, mime: 'image/png', byteSize: png.length, fileName: 'plan.png' })
-    const back = await officer.get(FLOOR_API.floorImage(floorId, res.body.id)).buffer(true).expect(200)
+    const back = await officer.get(pathOf(contract.floors.image, { id: floorId, imageId: res.body.id })).buffer(true).expect(200)
     expect(back.headers['content-type']).toBe('image/png')
     expect(Buffer.compare(back.body as Buffer, png)).toBe(0)
     // Staff assigned to the floor may look at the image too.
     const staff = await signIn(rt, acct('staff').email, acct('staff').password)
-    await staff.get(FLOOR_API.floorImage(floorId, res.body.id)).expect(200)
+    await staff.get(pathOf(contract.floors.image, { id: floorId, imageId: res.body.id })).expect(200)
   })
   it('judges by the bytes: a PNG named .txt with a text type is still a PNG', async () => {
-    const res = await officer.post(FLOOR_API.floorImages(floorId)).attach('file', tinyPng(), { filename: 'notes.txt', contentType: 'text/plain' }).expect(201)
+    const res = await officer.post(pathOf(contract.floors.uploadImage, { id: floorId })).attach('file', tinyPng(), { filename: 'notes.txt', contentType: 'text/plain' }).expect(201)
     expect(res.body.mime).toBe('image/png')
   })
   it('refuses a text file renamed to .png (415)', async () => {
-    const res = await officer.post(FLOOR_API.floorImages(floorId))
+    const res = await officer.post(pathOf(contract.floors.uploadImage, { id: floorId }))
       .attach('file', Buffer.from('#!/bin/sh\necho not an image\n'), { filename: 'plan.png', contentType: 'image/png' }).expect(415)
     expect(res.body.error).toMatchObject({ code: 'unsupported_type', fields: { file: 'PNG or JPEG only' } })
   })
   it('refuses an SVG, even one that says it is a PNG (415)', async () => {
     const svg = Buffer.from('<?xml version="1.0"?><svg xmlns="http://www.w3.org/2000/svg" width="10" height="10"><script>alert(1)</script></svg>')
-    await officer.post(FLOOR_API.floorImages(floorId)).attach('file', svg, { filename: 'plan.svg', contentType: 'image/svg+xml' }).expect(415)
-    await officer.post(FLOOR_API.floorImages(floorId)).attach('file', svg, { filename: 'plan.png', contentType: 'image/png' }).expect(415)
+    await officer.post(pathOf(contract.floors.uploadImage, { id: floorId })).attach('file', svg, { filename: 'plan.svg', contentType: 'image/svg+xml' }).expect(415)
+    await officer.post(pathOf(contract.floors.uploadImage, { id: floorId })).attach('file', svg, { filename: 'plan.png', contentType: 'image/png' }).expect(415)
   })
   it('refuses a file over 10 MB with 413', async () => {
     const big = Buffer.concat([tinyPng(), Buffer.alloc(MAX_FLOOR_IMAGE_BYTES)])
-    const res = await officer.post(FLOOR_API.floorImages(floorId)).attach('file', big, { filename: 'huge.png', contentType: 'image/png' }).expect(413)
+    const res = await officer.post(pathOf(contract.floors.uploadImage, { id: floorId })).attach('file', big, { filename: 'huge.png', contentType: 'image/png' }).expect(413)
     expect(res.body.error.code).toBe('too_large')
   })
   it('asks for a file when none is attached (400 naming the field)', async () => {
-    const res = await officer.post(FLOOR_API.floorImages(floorId)).field('note', 'no file').expect(400)
+    const res = await officer.post(pathOf(contract.floors.uploadImage, { id: floorId })).field('note', 'no file').expect(400)
     expect(res.body.error.fields).toEqual({ file: 'Required' })
   })
   it('staff cannot upload (403); another organization cannot read (404)', async () => {
     const staff = await signIn(rt, acct('staff').email, acct('staff').password)
-    await staff.post(FLOOR_API.floorImages(floorId)).attach('file', tinyPng(), 'plan.png').expect(403)
-    const id = (await officer.post(FLOOR_API.floorImages(floorId)).attach('file', tinyPng(), 'plan.png').expect(201)).body.id
+    await staff.post(pathOf(contract.floors.uploadImage, { id: floorId })).attach('file', tinyPng(), 'plan.png').expect(403)
+    const id = (await officer.post(pathOf(contract.floors.uploadImage, { id: floorId })).attach('file', tinyPng(), 'plan.png').expect(201)).body.id
     const other = await createOtherOrg(rt.ctx.db, rt.ctx.config)
     const stranger = await signIn(rt, other.users.admin.email, other.password)
-    await stranger.get(FLOOR_API.floorImage(floorId, id)).expect(404)
-    await stranger.post(FLOOR_API.floorImages(floorId)).attach('file', tinyPng(), 'plan.png').expect(404)
+    await stranger.get(pathOf(contract.floors.image, { id: floorId, imageId: id })).expect(404)
+    await stranger.post(pathOf(contract.floors.uploadImage, { id: floorId })).attach('file', tinyPng(), 'plan.png').expect(404)
   })
 })
