@@ -1,16 +1,9 @@
 import type { RequestHandler } from 'express'
-import type { Role } from '../../shared/schemas/common'
+import type { Actor } from '../domain/actor'
 import type { Db } from '../db/database'
 import { findActiveUserById } from '../repositories/users.repo'
 
-/** The signed-in caller as services see it: every query is scoped by orgId. */
-export interface Actor {
-  id: number
-  orgId: number
-  role: Role
-  email: string
-  name: string
-}
+export type { Actor } from '../domain/actor'
 
 declare module 'express-session' {
   interface SessionData {

@@ -3,7 +3,6 @@ import type { Db } from '../db/database'
 import { listFloors } from '../repositories/floors.repo'
 import { findScenarioByName, insertScenario } from '../repositories/scenarios.repo'
 import { DEMO_FLOOR_NAME } from '../seed/demo-floor'
-import type { DemoSeed } from '../seed/demo'
 
 export const DEMO_SCENARIO_NAME = 'Ammonia cabinet valve leak, normal ventilation'
 
@@ -21,7 +20,7 @@ export const DEMO_SCENARIO: ScenarioConfig = {
 }
 
 /** Demo step: the demo scenario on the demo floor, when that floor exists. Idempotent; not run at seed time. */
-export async function seedDemoScenario(db: Db, seed: Pick<DemoSeed, 'orgId'>): Promise<number | null> {
+export async function seedDemoScenario(db: Db, seed: { orgId: number }): Promise<number | null> {
   const floor = (await listFloors(db, seed.orgId)).find((f) => f.name === DEMO_FLOOR_NAME)
   if (!floor) return null
   const existing = await findScenarioByName(db, floor.id, DEMO_SCENARIO_NAME)

@@ -3,7 +3,7 @@ import { checkPlan, type PlanProblem } from '../../shared/floorplan/checks'
 import { LIBRARY_GAS_IDS } from '../../shared/floorplan/gas-ids'
 import type { Plan } from '../../shared/floorplan/plan-schema'
 import { startWorker } from '../engine-thread/start-worker'
-import { AppError } from '../http/errors'
+import { AppError } from '../domain/errors'
 
 /**
  * Plan checks that cannot stall other requests (issue 14). Small plans (nearly all) are checked inline, which takes

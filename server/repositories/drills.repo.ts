@@ -175,3 +175,15 @@ export const membersOfFloor = (db: Db, floorId: number, kind: 'manager' | 'membe
     .select(['users.id', 'users.name', 'users.email', 'users.role'])
     .where('floor_members.floor_id', '=', floorId).where('floor_members.kind', '=', kind).where('users.status', '=', 'active')
     .execute()
+
+/** Version numbers of the drilled plan versions, in one query for a whole list of drills. */
+export const versionNumbersOf = async (db: Db, orgId: number, versionIds: number[]): Promise<Map<number, number>> =>
+  new Map(versionIds.length === 0 ? [] : (await db.selectFrom('plan_versions').select(['id', 'version'])
+    .where('org_id', '=', orgId).where('id', 'in', [...new Set(versionIds)]).execute()).map((r) => [r.id, r.version]))
+
+/** The drilled plan version as the drill page shows it. */
+export const drilledVersion = (db: Db, orgId: number, versionId: number) =>
+  db.selectFrom('plan_versions').select(['version', 'content_hash', 'content']).where('org_id', '=', orgId).where('id', '=', versionId).executeTakeFirst()
+
+export const siteOfFloor = async (db: Db, orgId: number, floorId: number) =>
+  (await db.selectFrom('floors').select('site_id').where('org_id', '=', orgId).where('id', '=', floorId).executeTakeFirst())?.site_id ?? null

@@ -18,13 +18,24 @@ export function runsRoutes(api: ApiRoutes, ctx: ServiceContext) {
   api.add(contract.runs.series,
     ({ actor, params }) => runs.getRunSeries(ctx, actor, params.id))
   api.add(contract.runs.fields,
-    ({ actor, params, res }) => runs.sendRunFields(ctx, actor, params.id, res))
+    async ({ actor, params, res }) => {
+      const { bytes, frames } = await runs.getRunFields(ctx, actor, params.id)
+      res.setHeader('content-type', 'application/octet-stream')
+      res.setHeader('cache-control', 'private, max-age=3600')
+      res.setHeader('x-frames', String(frames))
+      res.status(200).end(bytes)
+    })
   api.add(contract.runs.egress,
     ({ actor, params, query }) => egress.getRunEgress(ctx, actor, params.id, query))
   api.add(contract.runs.bundle,
     ({ actor, params }) => bundles.getRunBundle(ctx, actor, params.id))
   api.add(contract.runs.bundleFronts,
-    ({ actor, params, query, res }) => bundles.sendBundleFronts(ctx, actor, params.id, query.limitKey, res))
+    async ({ actor, params, query, res }) => {
+      const { bytes, cases } = await bundles.getBundleFronts(ctx, actor, params.id, query.limitKey)
+      res.setHeader('content-type', 'application/octet-stream')
+      res.setHeader('x-cases', String(cases))
+      res.status(200).end(bytes)
+    })
   api.add(contract.runs.cancel,
     ({ actor, params }) => runs.cancelRun(ctx, actor, params.id))
 

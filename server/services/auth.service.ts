@@ -1,6 +1,6 @@
 import type { AcceptInvitation, SessionUser, TokenInfo, UnitSystem } from '../../shared/schemas/auth'
-import { AppError, conflict, gone, notFound } from '../http/errors'
-import type { Actor } from '../http/session-user'
+import { AppError, conflict, gone, notFound } from '../domain/errors'
+import type { Actor } from '../domain/actor'
 import { composeMail } from '../mail/compose'
 import { appendAudit } from '../repositories/audit.repo'
 import { findOrg } from '../repositories/orgs.repo'

@@ -1,11 +1,10 @@
-import type { Response } from 'express'
 import { bundleBand, frontsBand } from '../../shared/runs/bundle'
 import type { RunBundle } from '../../shared/schemas/bundles'
 import { RunFieldsMeta, RunSummary } from '../../shared/schemas/runs'
 import { SCREENING_CAUTION } from '../../shared/ui/cautions'
-import type { Actor } from '../http/session-user'
+import type { Actor } from '../domain/actor'
 import { bundleMembers, nominalOf, runTiming } from '../repositories/bundles.repo'
-import { AppError } from '../http/errors'
+import { AppError } from '../domain/errors'
 import { findResultFronts, findResultMeta } from '../repositories/runs.repo'
 import type { ServiceContext } from './context'
 import { requireRun } from './runs.service'
@@ -61,7 +60,7 @@ export async function getRunBundle(ctx: ServiceContext, actor: Actor, id: number
  * first-crossing time over the finished cases. Every case shares the nominal's grid (only D, ventilation or the leak
  * position differ), so the planes line up cell for cell.
  */
-export async function sendBundleFronts(ctx: ServiceContext, actor: Actor, id: number, limitKey: string, res: Response) {
+export async function getBundleFronts(ctx: ServiceContext, actor: Actor, id: number, limitKey: string): Promise<{ bytes: Buffer; cases: number }> {
   await requireRun(ctx, actor, id)
   const nominalId = (await nominalOf(ctx.db, actor.orgId, id))?.nominal_run_id ?? id
   const members = await bundleMembers(ctx.db, actor.orgId, nominalId)
@@ -83,7 +82,5 @@ export async function sendBundleFronts(ctx: ServiceContext, actor: Actor, id: nu
   const planes = rows.map(planeOf).filter((p): p is Float32Array => p !== null)
   const { earliest, latest } = frontsBand(planes)
   const body = Buffer.concat([planeOf(nominal)!, earliest, latest].map((a) => Buffer.from(a.buffer, a.byteOffset, a.byteLength)))
-  res.setHeader('content-type', 'application/octet-stream')
-  res.setHeader('x-cases', String(planes.length))
-  res.status(200).end(body)
+  return { bytes: body, cases: planes.length }
 }

@@ -15,3 +15,10 @@ export interface ServiceContext {
   /** The pg-boss job queue shared by simulations and scheduled notices. */
   jobs: JobQueue
 }
+
+/** What a background worker started from `BACKGROUND` needs of the runtime (which satisfies it), without importing it. */
+export interface BackgroundHost {
+  ctx: ServiceContext
+  /** Closed in reverse order when the runtime stops. */
+  onClose(fn: () => Promise<void> | void): void
+}

@@ -4,11 +4,10 @@ import { createEvent } from 'ics'
 import { formatLocal } from '../../shared/drills/time'
 import { SCREENING_CAUTION } from '../../shared/ui/cautions'
 import type { Db } from '../db/database'
-import { gone } from '../http/errors'
+import { gone } from '../domain/errors'
 import { composeMail } from '../mail/compose'
-import type { Runtime } from '../runtime'
 import { claimReminder, dueReminders, findDrillInOrg, findParticipant, listParticipants, setParticipantToken } from '../repositories/drills.repo'
-import type { ServiceContext } from './context'
+import type { BackgroundHost, ServiceContext } from './context'
 import { hashNonce, signToken, verifyTokenSignature } from './signed-links'
 
 /**
@@ -143,7 +142,7 @@ export async function processDueReminders(ctx: ServiceContext, now: Date): Promi
  * The reminder job on the shared pg-boss queue: a tick every minute (pg-boss cron) and on demand; each tick
  * sends what is due by drillClock, so a test can move the clock and send a tick.
  */
-export async function startDrillReminders(rt: Runtime) {
+export async function startDrillReminders(rt: BackgroundHost) {
   const boss = rt.ctx.jobs.boss
   await rt.ctx.jobs.ensureQueue(REMINDER_QUEUE, { retryLimit: 3, retryDelay: 5, expireInSeconds: 120 })
   const workerId = await boss.work(REMINDER_QUEUE, { pollingIntervalSeconds: 0.5, batchSize: 1 }, async () => {

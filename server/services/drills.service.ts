@@ -6,14 +6,15 @@ import type {
 import { ChecklistStep, PlanContent } from '../../shared/schemas/plans'
 import { Measured, StepResult } from '../../shared/schemas/drills'
 import { z } from 'zod'
-import { AppError, conflict, notFound } from '../http/errors'
-import type { Actor } from '../http/session-user'
+import { AppError, conflict, notFound } from '../domain/errors'
+import { canManageDrills, isOfficerRole } from '../domain/access'
+import type { Actor } from '../domain/actor'
 import { appendAudit } from '../repositories/audit.repo'
 import { floorIdsOfUser } from '../repositories/floors.repo'
 import {
   confirmParticipant, findDrillInOrg, findFindingInOrg, floorDrillStats, insertDrill, insertFinding, insertParticipants, invitablePeople,
   latestMailOfDrill, listDrillsInOrg, listFindings, listParticipants, membersOfFloor, saveRecord, setSiteFrequency, sitesWithDrills,
-  updateDrill, updateFinding, type DrillRow,
+  updateDrill, updateFinding, type DrillRow, drilledVersion, siteOfFloor, versionNumbersOf,
 } from '../repositories/drills.repo'
 import { findPlanInOrg, findVersion } from '../repositories/plans.repo'
 import { findSiteInOrg } from '../repositories/sites.repo'
@@ -22,7 +23,6 @@ import { renderDrillPdf } from './drill-pdf.service'
 import { drillClock, inspectReceiptToken, sendDrillNotices, tickReminders } from './drill-notices.service'
 
 const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null)
-export const canManageDrills = (actor: Pick<Actor, 'role'>) => actor.role === 'admin' || actor.role === 'ehs_officer'
 
 const invalid = (fields: Record<string, string>) => new AppError(400, 'validation_failed', `Some fields are not valid: ${Object.keys(fields).join(', ')}`, fields)
 
@@ -61,8 +61,8 @@ export async function listDrills(ctx: ServiceContext, actor: Actor): Promise<{ d
     const own = await listDrillsInOrg(ctx.db, actor.orgId, { participantUserId: actor.id })
     rows = [...rows, ...own.filter((o) => !rows.some((r) => r.id === o.id))].sort((a, b) => +new Date(b.starts_at) - +new Date(a.starts_at))
   }
-  const versions = await Promise.all(rows.map((r) => ctx.db.selectFrom('plan_versions').select('version').where('id', '=', r.plan_version_id).executeTakeFirst()))
-  return { drills: rows.map((r, i) => ({ ...summary(r as never), planVersion: versions[i]?.version ?? 0 })) }
+  const versions = await versionNumbersOf(ctx.db, actor.orgId, rows.map((r) => r.plan_version_id))
+  return { drills: rows.map((r) => ({ ...summary(r as never), planVersion: versions.get(r.plan_version_id) ?? 0 })) }
 }
 
 /** People an officer can invite or put in charge. */
@@ -80,7 +80,7 @@ export async function scheduleDrill(ctx: ServiceContext, actor: Actor, input: Ne
   const fields: Record<string, string> = {}
   const officer = byId.get(input.officerId)
   if (!officer) fields.officerId = 'No such active person in your organization'
-  else if (officer.role !== 'admin' && officer.role !== 'ehs_officer') fields.officerId = 'The officer in charge must be an EHS officer or administrator'
+  else if (!isOfficerRole(officer.role)) fields.officerId = 'The officer in charge must be an EHS officer or administrator'
   input.participants.userIds.forEach((id, i) => { if (!byId.has(id)) fields[`participants.userIds.${i}`] = 'No such active person in your organization' })
   const startsAt = localToUtc(input.date, input.time, input.timeZone)
   if (startsAt.getTime() <= drillClock.now().getTime()) fields.date = 'The drill must be in the future'
@@ -96,10 +96,10 @@ export async function scheduleDrill(ctx: ServiceContext, actor: Actor, input: Ne
   if (!invited.length) throw invalid({ participants: 'Invite at least one person or group' })
 
   const content = PlanContent.parse(version.content)
-  const site = plan.floor_id !== null ? await ctx.db.selectFrom('floors').select('site_id').where('id', '=', plan.floor_id).executeTakeFirst() : undefined
+  const siteId = plan.floor_id !== null ? await siteOfFloor(ctx.db, actor.orgId, plan.floor_id) : null
   const id = await ctx.db.transaction().execute(async (trx) => {
     const { id } = await insertDrill(trx, {
-      orgId: actor.orgId, planId: plan.id, planVersionId: version.id, floorId: plan.floor_id, siteId: site?.site_id ?? null, floorName: plan.floor_name,
+      orgId: actor.orgId, planId: plan.id, planVersionId: version.id, floorId: plan.floor_id, siteId, floorName: plan.floor_name,
       siteName: plan.site_name, title: input.title, scenario: input.scenario, location: input.location, startsAt, timeZone: input.timeZone,
       durationMinutes: input.durationMinutes, reminderMinutes: input.reminderMinutes, officerId: input.officerId, checklist: content.checklist,
       predicted: content.predicted, userId: actor.id,
@@ -202,7 +202,7 @@ export async function getDrill(ctx: ServiceContext, actor: Actor, id: number): P
   const d = await requireDrill(ctx, actor, id)
   const [people, findingRows, version, plan] = await Promise.all([
     roster(ctx, id), listFindings(ctx.db, actor.orgId, { drillId: id }),
-    ctx.db.selectFrom('plan_versions').select(['version', 'content_hash', 'content']).where('id', '=', d.plan_version_id).executeTakeFirst(),
+    drilledVersion(ctx.db, actor.orgId, d.plan_version_id),
     findPlanInOrg(ctx.db, actor.orgId, d.plan_id),
   ])
   const checklist = z.array(ChecklistStep).parse(d.checklist)

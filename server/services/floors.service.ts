@@ -7,8 +7,9 @@ import type {
   FloorDetail, FloorInput, FloorSummary, FloorUpdate, SavePlanResult,
 } from '../../shared/schemas/floors'
 import type { Db } from '../db/database'
-import { AppError, conflict, notFound } from '../http/errors'
-import type { Actor } from '../http/session-user'
+import { AppError, conflict, notFound } from '../domain/errors'
+import { canManageFloors } from '../domain/access'
+import type { Actor } from '../domain/actor'
 import { appendAudit } from '../repositories/audit.repo'
 import { checkPlanSafely } from '../jobs/plan-checks-thread'
 import { floorChanged } from './staleness.service'
@@ -18,11 +19,6 @@ import {
 } from '../repositories/floors.repo'
 import type { ServiceContext } from './context'
 import { requireSite } from './sites.service'
-
-/** Admins and EHS officers create and edit sites and floors; lab managers and staff only view theirs. */
-export function canManageFloors(actor: Pick<Actor, 'role'>): boolean {
-  return actor.role === 'admin' || actor.role === 'ehs_officer'
-}
 
 function check(plan: Plan, ceilingM: number): { problems: PlanProblem[]; planValid: boolean } {
   const problems = checkPlan(plan, { knownGasIds: LIBRARY_GAS_IDS, ceilingM })

@@ -1,14 +1,13 @@
 import { compareTimesToLimits, timeChangeText } from '../../shared/plans/stale-changes'
 import { RunSummary } from '../../shared/schemas/runs'
 import type { BringUpToDate, PlanUpdateState } from '../../shared/schemas/staleness'
-import { AppError, conflict } from '../http/errors'
-import type { Actor } from '../http/session-user'
+import { AppError, conflict } from '../domain/errors'
+import type { Actor } from '../domain/actor'
 import { appendAudit } from '../repositories/audit.repo'
 import {
   finishPlanUpdate, findUserActor, insertPlanUpdate, latestPlanUpdate, findWaitingUpdate, resultVersions, runStates, waitingPlanUpdates,
 } from '../repositories/staleness.repo'
-import type { Runtime } from '../runtime'
-import type { ServiceContext } from './context'
+import type { BackgroundHost, ServiceContext } from './context'
 import { getPlan, publishPlan, refreshPlan } from './plans.service'
 import { startScenarioRun } from './runs.service'
 import { planUpdateOf } from './staleness.service'
@@ -96,7 +95,7 @@ export async function tickPlanUpdates(ctx: ServiceContext, afterS = 0) {
 }
 
 /** The queue's worker (server process): each tick finishes what it can and asks for another while re-runs go on. */
-export async function startPlanUpdates(rt: Runtime) {
+export async function startPlanUpdates(rt: BackgroundHost) {
   const boss = rt.ctx.jobs.boss
   await ensurePlanUpdatesQueue(rt.ctx)
   const workerId = await boss.work(PLAN_UPDATES_QUEUE, { pollingIntervalSeconds: 0.5, batchSize: 1 }, async () => {

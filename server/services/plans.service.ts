@@ -12,8 +12,8 @@ import {
 } from '../../shared/schemas/plans'
 import { RunSummary } from '../../shared/schemas/runs'
 import type { Db } from '../db/database'
-import { AppError, conflict, forbidden, notFound } from '../http/errors'
-import type { Actor } from '../http/session-user'
+import { AppError, conflict, forbidden, notFound } from '../domain/errors'
+import type { Actor } from '../domain/actor'
 import { composeMail } from '../mail/compose'
 import { appendAudit } from '../repositories/audit.repo'
 import { floorIdsOfUser } from '../repositories/floors.repo'
@@ -23,7 +23,8 @@ import {
   updatePlanRuns,
 } from '../repositories/plans.repo'
 import type { ServiceContext } from './context'
-import { canManageFloors, requireVisibleFloor } from './floors.service'
+import { canEditPlans } from '../domain/access'
+import { requireVisibleFloor } from './floors.service'
 import { renderPlanPdf } from './plan-pdf.service'
 import { differenceSincePublished, planUpdateOf, recordBasis, settleReasons, stalenessOf, stalenessOfPlan } from './staleness.service'
 
@@ -33,8 +34,6 @@ type VersionRow = NonNullable<Awaited<ReturnType<typeof findVersion>>>
 const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null)
 export const contentHash = (planId: number, version: number, floorId: number | null, content: unknown) =>
   createHash('sha256').update(hashInput({ planId, version, floorId, content })).digest('hex')
-
-export const canEditPlans = (actor: Pick<Actor, 'role'>) => canManageFloors(actor)
 
 /** The plan if the caller may see it: officers see all of the organization, lab managers the plans of their floors. */
 async function requirePlan(ctx: ServiceContext, actor: Actor, id: number): Promise<PlanRow> {

@@ -1,9 +1,8 @@
-import type { Response } from 'express'
 import { Plan } from '../../shared/floorplan/plan-schema'
 import { bundleCases } from '../../shared/runs/bundle'
 import { RUN_STATUSES, RunFieldsMeta, RunSummary, ScenarioConfig, type RunDetail, type RunListItem, type RunSeries } from '../../shared/schemas/runs'
-import { AppError, notFound } from '../http/errors'
-import type { Actor } from '../http/session-user'
+import { AppError, notFound } from '../domain/errors'
+import type { Actor } from '../domain/actor'
 import { enqueueRun, RUNS_QUEUE } from '../jobs/runs-worker'
 import { appendAudit } from '../repositories/audit.repo'
 import { insertBundleMember } from '../repositories/bundles.repo'
@@ -12,7 +11,8 @@ import {
   findResultBinary, findResultMeta, findResultSeries, findRunInOrg, insertRun, listRuns, requestCancel,
 } from '../repositories/runs.repo'
 import type { ServiceContext } from './context'
-import { canManageFloors, requireVisibleFloor } from './floors.service'
+import { canManageFloors } from '../domain/access'
+import { requireVisibleFloor } from './floors.service'
 import { checkRunnable, requireScenario } from './scenarios.service'
 import { RunFieldsCache } from './run-fields-cache'
 
@@ -109,8 +109,8 @@ export async function getRunSeries(ctx: ServiceContext, actor: Actor, id: number
 
 const fieldsCache = new RunFieldsCache()
 
-/** Sends the Float32 planes (layout: RunFieldsMeta in shared/schemas/runs.ts). */
-export async function sendRunFields(ctx: ServiceContext, actor: Actor, id: number, res: Response) {
+/** The Float32 planes (layout: RunFieldsMeta in shared/schemas/runs.ts) as bytes, with the number of frames. */
+export async function getRunFields(ctx: ServiceContext, actor: Actor, id: number): Promise<{ bytes: Buffer; frames: number }> {
   await requireRun(ctx, actor, id)
   let entry = fieldsCache.get(id)
   if (!entry) {
@@ -120,10 +120,7 @@ export async function sendRunFields(ctx: ServiceContext, actor: Actor, id: numbe
     entry = { body: Buffer.concat([r.frames, r.fronts, r.peak]), frames: r.frames.length / 4 / (meta.nx * meta.ny) }
     fieldsCache.set(id, entry)
   }
-  res.setHeader('content-type', 'application/octet-stream')
-  res.setHeader('cache-control', 'private, max-age=3600')
-  res.setHeader('x-frames', String(entry.frames))
-  res.status(200).end(entry.body)
+  return { bytes: entry.body, frames: entry.frames }
 }
 
 export async function cancelRun(ctx: ServiceContext, actor: Actor, id: number): Promise<RunDetail> {

@@ -1,6 +1,6 @@
 import { createHash, createHmac, randomBytes, timingSafeEqual } from 'node:crypto'
 import type { Db } from '../db/database'
-import { gone } from '../http/errors'
+import { gone } from '../domain/errors'
 import { consumeToken, findToken, insertToken, retireTokens } from '../repositories/tokens.repo'
 import { findInvitationById } from '../repositories/invitations.repo'
 

@@ -1,11 +1,11 @@
 import type { Person, Site, SiteInput } from '../../shared/schemas/floors'
-import { notFound } from '../http/errors'
-import type { Actor } from '../http/session-user'
+import { notFound } from '../domain/errors'
+import type { Actor } from '../domain/actor'
 import { appendAudit } from '../repositories/audit.repo'
 import { floorIdsOfUser } from '../repositories/floors.repo'
 import { deleteSite, findSiteInOrg, insertSite, listAssignablePeople, listSitesInOrg, updateSite } from '../repositories/sites.repo'
 import type { ServiceContext } from './context'
-import { canManageFloors } from './floors.service'
+import { canManageFloors } from '../domain/access'
 
 type SiteRow = { id: number; name: string; address: string; created_at: Date | string; floor_count?: number }
 

@@ -4,8 +4,7 @@ import type { Db } from '../db/database'
 import { composeMail } from '../mail/compose'
 import { managersOfFloors } from '../repositories/plans.repo'
 import { acksOfVersions, allPlansOfOrg, mailWithRef, officersOfOrgs, publishedPlansForDigest } from '../repositories/staleness.repo'
-import type { Runtime } from '../runtime'
-import type { ServiceContext } from './context'
+import type { BackgroundHost, ServiceContext } from './context'
 import { stalenessOf, sweepCodeVersions } from './staleness.service'
 
 /**
@@ -107,7 +106,7 @@ export async function sendWeeklyDigest(ctx: ServiceContext, now = new Date()): P
 }
 
 /** The weekly schedule and its worker (server process). */
-export async function startWeeklyDigest(rt: Runtime) {
+export async function startWeeklyDigest(rt: BackgroundHost) {
   const boss = rt.ctx.jobs.boss
   await rt.ctx.jobs.ensureQueue(DIGEST_QUEUE, { policy: 'singleton', retryLimit: 2, retryDelay: 60, expireInSeconds: 900 })
   const workerId = await boss.work(DIGEST_QUEUE, { pollingIntervalSeconds: 2, batchSize: 1 }, async () => ({ queued: await sendWeeklyDigest(rt.ctx) }))

@@ -6,8 +6,8 @@ import { compareTimesToLimits, describeFloorChanges, describeScenarioChanges, jo
 import { RunSummary, ScenarioConfig } from '../../shared/schemas/runs'
 import { PlanBasis, type PlanStaleness, type PlanUpdateState } from '../../shared/schemas/staleness'
 import type { Db } from '../db/database'
-import { notFound } from '../http/errors'
-import type { Actor } from '../http/session-user'
+import { notFound } from '../domain/errors'
+import type { Actor } from '../domain/actor'
 import { appendAudit } from '../repositories/audit.repo'
 import {
   bumpScenarioVersion, clearReasons, latestPlanUpdate, floorVersion, insertStaleReasons, openReasons, plansOfFloor, plansOfScenario, plansWithResultVersions,
