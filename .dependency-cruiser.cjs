@@ -25,6 +25,8 @@ module.exports = {
       from: { path: '^src/pages/' }, to: { path: '^src/api/' } },
     { name: 'services-not-http', severity: 'error', comment: 'Services take plain inputs; errors, the actor and role checks live in server/domain/.',
       from: { path: '^server/(services|repositories|jobs|seed|domain)/' }, to: { path: '^server/http/' } },
+    { name: 'services-plain-io', severity: 'error', comment: 'Services take plain inputs and return data or bytes: no Express or multer below the routes.',
+      from: { path: '^server/(services|repositories|jobs|seed|domain)/' }, to: { path: 'node_modules/(express|multer)/' } },
     { name: 'no-server-cycles', severity: 'error', comment: 'No import cycles on the server or in shared/.',
       from: { path: '^(server|shared)/' }, to: { circular: true } },
     { name: 'no-cycles', severity: 'warn', from: { pathNot: '^(server|shared)/' }, to: { circular: true } },
