@@ -8,6 +8,7 @@ import { simulate } from '../../shared/engine/simulate'
 import { buildModel } from '../../shared/engine/model'
 import { explicitStableStep } from '../../shared/engine/operator'
 import { validateScenario } from '../../shared/engine/validate'
+import { peerComparison, throughput } from './peer-throughput'
 
 const FIXTURE = fileURLToPath(new URL('../fixtures/engine/bench-floor.json', import.meta.url))
 const SELF = fileURLToPath(import.meta.url)
@@ -129,4 +130,9 @@ function main(): void {
 }
 
 if (process.argv[2] === '--child') child(process.argv[3]!)
-else main()
+else {
+  main()
+  // Issue 18: beside the NumPy peer in the same invocation, and runs per minute with 1, 2, 4 workers.
+  peerComparison()
+  await throughput()
+}
